@@ -1,0 +1,11 @@
+import type { Sequelize } from 'sequelize';
+import type { Config } from './config/env';
+import type { Mailer } from './integrations/mailer';
+
+/** Everything a request handler needs, built once at start-up (or per test). */
+export type Deps = {
+  config: Config;
+  sequelize: Sequelize;
+  mailer: Mailer;
+  log: (err: unknown) => void;
+};

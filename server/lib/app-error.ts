@@ -1,0 +1,16 @@
+export class AppError extends Error {
+  constructor(
+    public readonly status: number,
+    public readonly code: string,
+    message: string,
+    public readonly details?: unknown,
+  ) {
+    super(message);
+  }
+}
+
+export const notFound = (what = 'This item') =>
+  new AppError(404, 'request/not-found', `${what} does not exist or is not in your programs.`);
+export const forbidden = () => new AppError(403, 'auth/forbidden', 'Your role does not allow this.');
+export const conflict = (message: string, current: unknown) =>
+  new AppError(409, 'request/conflict', message, { current });
