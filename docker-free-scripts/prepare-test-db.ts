@@ -9,7 +9,7 @@ async function main() {
   const sequelize = createSequelize(config.databaseUrl);
   initModels(sequelize);
   await migrateUp(sequelize);
-  if (await databaseIsEmpty(sequelize)) await seedDemo(sequelize, { bcryptRounds: config.bcryptRounds });
+  if (await databaseIsEmpty(sequelize)) await seedDemo(sequelize, config);
   await sequelize.close();
 }
 main().catch((err) => {

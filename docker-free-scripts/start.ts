@@ -75,18 +75,7 @@ async function main() {
     await ensureDatabase(cluster.url('postgres'), 'proofyard');
   }
 
-  const sequelize = createSequelize(config.databaseUrl);
-  initModels(sequelize);
-  const applied = await migrateUp(sequelize);
-  if (applied.length) console.log(`proofyard: applied ${applied.length} migration(s)`);
-  if (await databaseIsEmpty(sequelize)) {
-    console.log('proofyard: loading the demo data (first start)...');
-    await seedDemo(sequelize, { bcryptRounds: config.bcryptRounds });
-  } else {
-    console.log('proofyard: database has data; demo data not reloaded');
-  }
-  await sequelize.close();
-
+  // The fakes start before the demo data: the demo's photos go to the S3 fake.
   if (localS3 || localSmtp) {
     const fakes = await startFakes({
       s3Port,
@@ -98,6 +87,18 @@ async function main() {
     });
     children.push(fakes.s3, fakes.smtp);
   }
+
+  const sequelize = createSequelize(config.databaseUrl);
+  initModels(sequelize);
+  const applied = await migrateUp(sequelize);
+  if (applied.length) console.log(`proofyard: applied ${applied.length} migration(s)`);
+  if (await databaseIsEmpty(sequelize)) {
+    console.log('proofyard: loading the demo data (first start)...');
+    await seedDemo(sequelize, config);
+  } else {
+    console.log('proofyard: database has data; demo data not reloaded');
+  }
+  await sequelize.close();
 
   buildWeb();
 

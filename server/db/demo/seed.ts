@@ -2,6 +2,7 @@ import bcrypt from 'bcrypt';
 import type { Sequelize } from 'sequelize';
 import type { Role } from '../../../shared/schemas/auth';
 import { Program, ProgramMember, User } from '../models';
+import type { Config } from '../../config/env';
 
 /** Demo password shared by every demo account (printed by `npm start`, listed in the README). */
 export const DEMO_PASSWORD = 'proofyard-demo';
@@ -75,7 +76,7 @@ export async function databaseIsEmpty(sequelize: Sequelize): Promise<boolean> {
   return rows[0].n === 0;
 }
 
-export async function seedDemo(sequelize: Sequelize, opts: { bcryptRounds: number }) {
+export async function seedDemo(sequelize: Sequelize, opts: Pick<Config, 'bcryptRounds' | 's3'>) {
   // One hash for the shared demo password keeps seeding fast (about a quarter second instead of several seconds).
   const passwordHash = await bcrypt.hash(DEMO_PASSWORD, opts.bcryptRounds);
   await sequelize.transaction(async (transaction) => {
