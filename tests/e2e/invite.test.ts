@@ -41,9 +41,9 @@ describe.each([
     await invitee.goto(`${BASE_URL}/dev/inbox`);
     await invitee.getByText(mail.subject).first().waitFor();
     await invitee.goto(link.replace(/^https?:\/\/[^/]+/, BASE_URL));
-    await invitee.getByLabel('New password', { exact: true }).fill('invitee-password-1');
-    await invitee.getByLabel('Repeat the new password').fill('invitee-password-1');
-    await invitee.getByRole('button', { name: /set password/i }).click();
+    await invitee.getByTestId('set-password-password').fill('invitee-password-1');
+    await invitee.getByTestId('set-password-confirm').fill('invitee-password-1');
+    await invitee.getByTestId('set-password-submit').click();
     await invitee.getByTestId('home-user-name').waitFor();
     await expect(invitee.getByTestId('home-user-name').textContent()).resolves.toContain('Rosalind Tenby');
     await screenshot(invitee, `invitee-home-${label}`);

@@ -1,0 +1,31 @@
+import type { IconName } from '@/components/ui/icon';
+import { ROLES, type Role } from '@/shared/schemas/auth';
+
+export type NavItem = {
+  href: string;
+  label: string;
+  icon: IconName;
+  roles: readonly Role[];
+};
+
+/** Every place the shell links to, in order. Features add their entry here. */
+export const NAV_ITEMS: readonly NavItem[] = [
+  { href: '/', label: 'Home', icon: 'home', roles: ROLES },
+  { href: '/admin/users', label: 'Users', icon: 'users', roles: ['admin'] },
+  { href: '/admin/programs', label: 'Programs', icon: 'programs', roles: ['admin'] },
+];
+
+export function navItemsFor(role: Role | null | undefined, items: readonly NavItem[] = NAV_ITEMS): NavItem[] {
+  if (!role) return [];
+  return items.filter((item) => item.roles.includes(role));
+}
+
+/** Home matches only itself; other items also match the pages beneath them. */
+export function isActiveHref(href: string, pathname: string): boolean {
+  if (href === '/') return pathname === '/';
+  return pathname === href || pathname.startsWith(`${href}/`);
+}
+
+export function navTestID(item: Pick<NavItem, 'label'>): string {
+  return `nav-${item.label.toLowerCase().replace(/\s+/g, '-')}`;
+}

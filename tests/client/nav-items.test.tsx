@@ -1,0 +1,80 @@
+import { fireEvent, render, screen } from '@testing-library/react';
+import { SafeAreaProvider } from 'react-native-safe-area-context';
+import { TabBar } from '@/components/shell/app-shell';
+import { NAV_ITEMS, isActiveHref, navItemsFor } from '@/components/shell/nav-items';
+import type { Role } from '@/shared/schemas/auth';
+
+const mockPush = jest.fn();
+jest.mock('expo-router', () => ({
+  useRouter: () => ({ push: mockPush }),
+  usePathname: () => '/',
+}));
+
+const metrics = {
+  frame: { x: 0, y: 0, width: 390, height: 844 },
+  insets: { top: 0, left: 0, right: 0, bottom: 0 },
+};
+
+describe('navigation items', () => {
+  it.each<[Role, string[]]>([
+    ['technician', ['Home']],
+    ['engineer', ['Home']],
+    ['coordinator', ['Home']],
+    ['driver', ['Home']],
+    ['lead', ['Home']],
+    ['admin', ['Home', 'Users', 'Programs']],
+  ])('a %s sees %j', (role, labels) => {
+    expect(navItemsFor(role).map((item) => item.label)).toEqual(labels);
+  });
+
+  it('nobody signed in sees no items', () => {
+    expect(navItemsFor(null)).toEqual([]);
+  });
+
+  it.each([
+    ['/', '/', true],
+    ['/', '/admin/users', false],
+    ['/admin/users', '/admin/users', true],
+    ['/admin/programs', '/admin/programs/abc', true],
+    ['/admin/programs', '/admin/programs-old', false],
+  ])('%s is active on %s: %s', (href, pathname, active) => {
+    expect(isActiveHref(href, pathname)).toBe(active);
+  });
+
+  it('the phone tab bar shows a technician only Home, and marks it as the current page', () => {
+    render(
+      <SafeAreaProvider initialMetrics={metrics}>
+        <TabBar items={navItemsFor('technician')} pathname="/" />
+      </SafeAreaProvider>,
+    );
+    const bar = screen.getByTestId('shell-phone');
+    expect(bar.textContent).toBe('Home');
+    expect(screen.queryByTestId('nav-users')).toBeNull();
+    expect(screen.getByTestId('nav-home').getAttribute('aria-current')).toBe('page');
+    expect(screen.getByLabelText('Home')).toBeTruthy();
+  });
+
+  it('the phone tab bar gives an admin every item of the list', () => {
+    render(
+      <SafeAreaProvider initialMetrics={metrics}>
+        <TabBar items={navItemsFor('admin')} pathname="/admin/users" />
+      </SafeAreaProvider>,
+    );
+    for (const item of NAV_ITEMS) expect(screen.getByTestId(`nav-${item.label.toLowerCase()}`)).toBeTruthy();
+    expect(screen.getByTestId('nav-users').getAttribute('aria-current')).toBe('page');
+    expect(screen.getByTestId('nav-home').getAttribute('aria-current')).toBeNull();
+  });
+
+  it('a tab is a real link that navigates inside the app', () => {
+    render(
+      <SafeAreaProvider initialMetrics={metrics}>
+        <TabBar items={navItemsFor('admin')} pathname="/" />
+      </SafeAreaProvider>,
+    );
+    const programs = screen.getByTestId('nav-programs');
+    expect(programs.tagName).toBe('A');
+    expect(programs.getAttribute('href')).toBe('/admin/programs');
+    fireEvent.click(programs);
+    expect(mockPush).toHaveBeenCalledWith('/admin/programs');
+  });
+});
