@@ -12,11 +12,11 @@ const nodeTransform = {
   ],
 };
 
-const nodeProject = (name, roots) => ({
+const nodeProject = (name, dir) => ({
   displayName: name,
   testEnvironment: 'node',
-  roots,
-  testMatch: ['**/*.test.ts'],
+  rootDir: __dirname,
+  testMatch: [`<rootDir>/${dir}/**/*.test.ts`],
   transform: nodeTransform,
   moduleNameMapper: { '^@/(.*)$': '<rootDir>/$1' },
 });
@@ -24,9 +24,9 @@ const nodeProject = (name, roots) => ({
 module.exports = {
   testTimeout: 30000,
   projects: [
-    nodeProject('shared', ['<rootDir>/tests/shared']),
-    nodeProject('server', ['<rootDir>/tests/server']),
-    ...(require('fs').existsSync(__dirname + '/jest.client.config.js') ? [require('./jest.client.config.js')] : []),
-    { ...nodeProject('e2e', ['<rootDir>/tests/e2e']) },
+    nodeProject('shared', 'tests/shared'),
+    nodeProject('server', 'tests/server'),
+    require('./jest.client.config.js'),
+    nodeProject('e2e', 'tests/e2e'),
   ],
 };
