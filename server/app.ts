@@ -7,7 +7,10 @@ import type { Deps } from './deps';
 import { RouteTable } from './lib/routes';
 import { errorHandler, notFoundRoute } from './middleware/errors';
 import { adminRoutes } from './routes/admin';
+import { assetRoutes } from './routes/assets';
 import { authRoutes } from './routes/auth';
+import { findingRoutes } from './routes/findings';
+import { stageRoutes } from './routes/stages';
 import { systemRoutes } from './routes/system';
 
 export type AppOptions = { webDist?: string };
@@ -47,6 +50,9 @@ export function createApp(deps: Deps, options: AppOptions = {}) {
   systemRoutes(api, deps, table);
   authRoutes(api, deps, table);
   adminRoutes(api, deps, table);
+  stageRoutes(api, deps, table);
+  assetRoutes(api, deps, table);
+  findingRoutes(api, deps, table);
   api.use(notFoundRoute);
   app.use('/api', api);
 

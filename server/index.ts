@@ -4,7 +4,9 @@ import { createApp } from './app';
 import { createSequelize } from './db/sequelize';
 import { initModels } from './db/models';
 import { createMailer } from './integrations/mailer';
+import { createStorage } from './integrations/storage';
 import { startOutboxLoop } from './services/outbox';
+import { startJobLoop } from './services/jobs';
 import type { Deps } from './deps';
 
 async function main() {
@@ -24,16 +26,20 @@ async function main() {
     config,
     sequelize,
     mailer: createMailer(config.mail.smtpUrl, config.mail.from),
+    storage: createStorage(config.s3),
     log: (err) => console.error('[proofyard]', err),
   };
   const { app } = createApp(deps, { webDist: path.resolve(__dirname, '..', 'dist') });
   const stopOutbox = startOutboxLoop(deps);
+  const stopJobs = startJobLoop(deps);
   const server = app.listen(config.port, () => {
     console.log(`[proofyard] API and web app on http://localhost:${config.port}`);
   });
   const shutdown = () => {
     stopOutbox();
+    stopJobs();
     server.close(() => {
+      deps.storage.close();
       void sequelize.close().finally(() => process.exit(0));
     });
     setTimeout(() => process.exit(0), 5_000).unref();

@@ -6,6 +6,7 @@ import { AppError, conflict, notFound } from '../lib/app-error';
 import type { SessionUser } from '../middleware/auth';
 import { recordHistory } from './history';
 import { sendAuthLink, toProgramDto, toUserDto } from './auth';
+import { createDefaultStages } from './stages';
 
 /** An admin sees and manages the users of the programs the admin belongs to, and no others. */
 async function visibleUserIds(admin: SessionUser): Promise<string[]> {
@@ -129,8 +130,16 @@ export async function createProgram(deps: Deps, admin: SessionUser, input: Creat
   return deps.sequelize.transaction(async (transaction) => {
     const program = await Program.create({ code: input.code, name: input.name }, { transaction });
     await ProgramMember.create({ programId: program.id, userId: admin.id }, { transaction });
+    const stages = await createDefaultStages(program.id, transaction);
     await recordHistory(
-      { programId: program.id, entityType: 'program', entityId: program.id, action: 'created', actorId: admin.id, after: toProgramDto(program) },
+      {
+        programId: program.id,
+        entityType: 'program',
+        entityId: program.id,
+        action: 'created',
+        actorId: admin.id,
+        after: { ...toProgramDto(program), stages: stages.map((s) => s.name) },
+      },
       transaction,
     );
     return toProgramDto(program);

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { FindingSeveritySchema } from './finding-enums';
 
 export const SYSTEMS = ['body', 'chassis', 'high-voltage', 'low-voltage-harness', 'thermal', 'software', 'safety'] as const;
 export const SystemSchema = z.enum(SYSTEMS);
@@ -31,6 +32,10 @@ export const ASSET_STATUS_LABELS: Record<AssetStatus, string> = {
 };
 
 export const DEFAULT_STAGES = ['Bench', 'Integration car', 'Early prototype', 'Validation build'] as const;
+/** Prototype driving level needed per default stage, in DEFAULT_STAGES order (the product's own defaults). */
+export const DEFAULT_STAGE_DRIVER_LEVELS = [0, 1, 2, 2] as const;
+/** Driving level of a stage a lead adds: the strictest default, lowered by the lead if it suits. */
+export const NEW_STAGE_DRIVER_LEVEL = 2;
 
 const text = (max: number) => z.string().trim().max(max, `Use at most ${max} characters.`);
 const uuid = z.uuid('Not a valid id.');
@@ -162,6 +167,8 @@ export const PhotoSchema = z.object({
 export type Photo = z.infer<typeof PhotoSchema>;
 
 export const StageVisitSchema = z.object({
+  /** The visit's id: `GET /api/assets/:id/checklist?visitId=` reads that visit's checklist. */
+  id: z.string().optional(),
   stageId: z.string(),
   stage: z.string(),
   enteredAt: z.string(),
@@ -295,6 +302,9 @@ export const ChecklistSchema = z.object({
   assetId: z.string(),
   stageId: z.string(),
   stage: z.string(),
+  /** The stage visit this checklist belongs to; `current` false for a stage the asset has left (read-only). */
+  visitId: z.string().optional(),
+  current: z.boolean().optional(),
   progress: ChecklistProgressSchema,
   groups: z.array(
     z.object({ system: SystemSchema, progress: ChecklistProgressSchema, items: z.array(ChecklistItemSchema) }),
@@ -309,8 +319,14 @@ export const UpdateChecklistItemSchema = z
     fittedRevision: text(20).optional(),
     notes: text(2000).optional(),
     naReason: text(500).optional(),
-    /** Required with a deviation: becomes a finding linked to the item. */
-    deviation: z.strictObject({ description: text(2000).min(3, 'Describe the deviation in a few words.') }).optional(),
+    /** Required with a deviation: becomes a finding linked to the item (severity `major` unless given). */
+    deviation: z
+      .strictObject({
+        description: text(2000).min(3, 'Describe the deviation in a few words.'),
+        title: text(160).min(1).optional(),
+        severity: FindingSeveritySchema.optional(),
+      })
+      .optional(),
     version: z.number().int().min(0),
   })
   .superRefine((v, ctx) => {
@@ -320,9 +336,30 @@ export const UpdateChecklistItemSchema = z
   });
 export type UpdateChecklistItem = z.input<typeof UpdateChecklistItemSchema>;
 
+export const ChecklistQuerySchema = z.strictObject({ visitId: uuid.optional() });
+
+// ---- History ------------------------------------------------------------------------------
+
+export const HistoryEntrySchema = z.object({
+  id: z.string(),
+  at: z.string(),
+  actor: z.object({ id: z.string(), name: z.string() }).nullable(),
+  action: z.string(),
+  entityType: z.string(),
+  entityId: z.string(),
+  before: z.unknown().nullable(),
+  after: z.unknown().nullable(),
+  note: z.string().nullable(),
+});
+export type HistoryEntry = z.infer<typeof HistoryEntrySchema>;
+export const AssetHistorySchema = z.object({ entries: z.array(HistoryEntrySchema) });
+
 // ---- Photos -------------------------------------------------------------------------------
 
 export const PHOTO_MAX_BYTES = 10 * 1024 * 1024;
 export const PHOTO_MAX_PIXELS = 40_000_000;
 export const PHOTO_CLIENT_LONG_SIDE = 1600;
-export const PHOTO_TYPES = ['image/jpeg', 'image/png', 'image/webp', 'image/heic'] as const;
+export const PHOTO_TYPES = ['image/jpeg', 'image/png', 'image/webp', 'image/heic', 'image/heif'] as const;
+/** Field names of the multipart photo upload (`POST /api/assets/:id/photos`). */
+export const PHOTO_FIELD = 'photo';
+export const IDEMPOTENCY_HEADER = 'Idempotency-Key';

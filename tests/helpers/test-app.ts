@@ -6,6 +6,7 @@ import { createApp } from '../../server/app';
 import { createSequelize } from '../../server/db/sequelize';
 import { initModels, Program, ProgramMember, User } from '../../server/db/models';
 import { createMailer } from '../../server/integrations/mailer';
+import { createStorage } from '../../server/integrations/storage';
 import { dispatchOutbox } from '../../server/services/outbox';
 import type { Deps } from '../../server/deps';
 import type { Role } from '../../shared/schemas/auth';
@@ -23,6 +24,7 @@ export function makeTestApp(overrides: Record<string, string> = {}) {
     config,
     sequelize,
     mailer: createMailer(config.mail.smtpUrl, config.mail.from),
+    storage: createStorage(config.s3),
     log: () => undefined,
   };
   const { app, routes } = createApp(deps);
@@ -30,6 +32,7 @@ export function makeTestApp(overrides: Record<string, string> = {}) {
   current = sequelize;
   // Models are bound to one Sequelize at a time: closing a second app binds them back to the first.
   const close = async () => {
+    deps.storage.close();
     await sequelize.close();
     current = previous;
     if (previous) initModels(previous);

@@ -3,6 +3,9 @@ import type { Sequelize } from 'sequelize';
 import type { Role } from '../../../shared/schemas/auth';
 import { Program, ProgramMember, User } from '../models';
 import type { Config } from '../../config/env';
+import { createStorage } from '../../integrations/storage';
+import { seedAssets } from './assets-seed';
+import { seedFindings } from './findings-seed';
 
 /** Demo password shared by every demo account (printed by `npm start`, listed in the README). */
 export const DEMO_PASSWORD = 'proofyard-demo';
@@ -79,21 +82,31 @@ export async function databaseIsEmpty(sequelize: Sequelize): Promise<boolean> {
 export async function seedDemo(sequelize: Sequelize, opts: Pick<Config, 'bcryptRounds' | 's3'>) {
   // One hash for the shared demo password keeps seeding fast (about a quarter second instead of several seconds).
   const passwordHash = await bcrypt.hash(DEMO_PASSWORD, opts.bcryptRounds);
-  await sequelize.transaction(async (transaction) => {
-    const fw3 = await Program.create({ code: 'FW3', name: 'Fenwater Motors FW3' }, { transaction });
-    const m1 = await Program.create({ code: 'M1', name: 'Marram Works M1' }, { transaction });
-    for (const [program, people, domain] of [
-      [fw3, FENWATER_PEOPLE, 'fenwater.example'],
-      [m1, MARRAM_PEOPLE, 'marram.example'],
-    ] as const) {
-      const users = await User.bulkCreate(
-        emailsFor([...people], domain).map((p) => ({ ...p, passwordHash })),
-        { transaction },
-      );
-      await ProgramMember.bulkCreate(
-        users.map((u) => ({ programId: program.id, userId: u.id })),
-        { transaction },
-      );
-    }
-  });
+  // The demo photos go to object storage (the S3 fake runs by now); their rows go in with the rest.
+  const storage = createStorage(opts.s3);
+  try {
+    await sequelize.transaction(async (transaction) => {
+      const fw3 = await Program.create({ code: 'FW3', name: 'Fenwater Motors FW3' }, { transaction });
+      const m1 = await Program.create({ code: 'M1', name: 'Marram Works M1' }, { transaction });
+      const people = new Map<string, User[]>();
+      for (const [program, list, domain] of [
+        [fw3, FENWATER_PEOPLE, 'fenwater.example'],
+        [m1, MARRAM_PEOPLE, 'marram.example'],
+      ] as const) {
+        const users = await User.bulkCreate(
+          emailsFor([...list], domain).map((p) => ({ ...p, passwordHash })),
+          { transaction, returning: true },
+        );
+        await ProgramMember.bulkCreate(
+          users.map((u) => ({ programId: program.id, userId: u.id })),
+          { transaction },
+        );
+        people.set(program.id, users);
+      }
+      await seedAssets({ transaction, storage, now: Date.now() }, fw3, people.get(fw3.id)!, m1, people.get(m1.id)!);
+      await seedFindings({ transaction, now: Date.now() }, fw3, people.get(fw3.id)!);
+    });
+  } finally {
+    storage.close();
+  }
 }

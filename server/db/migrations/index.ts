@@ -1,7 +1,13 @@
 import type { QueryInterface } from 'sequelize';
 import * as foundation from './20261202-0001-foundation';
+import * as assets from './20261202-0002-assets';
+import * as findings from './20261202-0003-findings';
 
 type Step = { up: (p: { context: QueryInterface }) => Promise<void>; down: (p: { context: QueryInterface }) => Promise<void> };
 
 /** Every migration in order. A new migration is a new timestamped file added to this list. */
-export const MIGRATIONS: Array<{ name: string } & Step> = [{ name: '20261202-0001-foundation', ...foundation }];
+export const MIGRATIONS: Array<{ name: string } & Step> = [
+  { name: '20261202-0001-foundation', ...foundation },
+  { name: '20261202-0002-assets', ...assets },
+  { name: '20261202-0003-findings', ...findings },
+];
