@@ -29,7 +29,7 @@ async function main() {
     storage: createStorage(config.s3),
     log: (err) => console.error('[proofyard]', err),
   };
-  const { app } = createApp(deps, { webDist: path.resolve(__dirname, '..', 'dist') });
+  const { app } = createApp(deps, { webDist: process.env.WEB_DIST ?? path.resolve(__dirname, '..', 'dist') });
   const stopOutbox = startOutboxLoop(deps);
   const stopJobs = startJobLoop(deps);
   const server = app.listen(config.port, () => {
