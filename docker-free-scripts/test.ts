@@ -32,6 +32,8 @@ async function main() {
   const bin = (name: string) => path.join(ROOT, 'node_modules', '.bin', name);
   const args = process.argv.slice(2);
   const only = args.find((a) => a.startsWith('--only='))?.slice(7);
+  // Anything else narrows the jest run to matching test files (e.g. `npm test -- --only=server matrix`).
+  const patterns = args.filter((a) => !a.startsWith('--only='));
   let ok = true;
 
   if (!only) {
@@ -73,7 +75,7 @@ async function main() {
   const selected = only ? only.split(',') : unitProjects;
   const unit = selected.filter((p) => p !== 'e2e');
   if (unit.length) {
-    ok = step('unit and API tests (jest)', bin('jest'), ['--selectProjects', ...unit, '--ci', '--json', `--outputFile=${jestOut}`], testEnv) && ok;
+    ok = step('unit and API tests (jest)', bin('jest'), ['--selectProjects', ...unit, '--ci', '--json', `--outputFile=${jestOut}`, ...patterns], testEnv) && ok;
   }
   const totals = { passed: 0, failed: 0 };
   const addTotals = (file: string) => {
@@ -94,7 +96,7 @@ async function main() {
     children.push(server);
     await waitForPort(appPort, 30_000);
     const e2eOut = path.join(tmpRoot, 'e2e.json');
-    ok = step('browser tests (Chromium)', bin('jest'), ['--selectProjects', 'e2e', '--ci', '--runInBand', '--json', `--outputFile=${e2eOut}`], {
+    ok = step('browser tests (Chromium)', bin('jest'), ['--selectProjects', 'e2e', '--ci', '--runInBand', '--json', `--outputFile=${e2eOut}`, ...patterns], {
       ...testEnv,
       E2E_BASE_URL: `http://127.0.0.1:${appPort}`,
     }) && ok;
