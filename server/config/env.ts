@@ -95,7 +95,8 @@ export function parseConfig(env: Record<string, string | undefined> = process.en
     const given = cleaned[name];
     const shown = name.includes('SECRET') || given === undefined ? '' : ` (got "${given}")`;
     const message = issue.code === 'invalid_type' && given === undefined ? `${name} is required` : issue.message;
-    return `Configuration error: ${message}${shown}`;
+    const named = message.includes(name) ? message : `${name}: ${message}`;
+    return `Configuration error: ${named}${shown}`;
   });
   throw new ConfigError(lines.join('\n'));
 }
