@@ -11,9 +11,10 @@ import { colors, radii, spacing } from '@/components/theme/tokens';
 import { useBreakpoints } from '@/hooks/use-breakpoints';
 import { useSession } from '@/hooks/use-session';
 import { ROLE_LABELS } from '@/shared/schemas/auth';
+import { ProgramGlance } from './program-glance';
 
 export function HomeScreen() {
-  const { user, programs, currentProgramId, signOut } = useSession();
+  const { user, programs, currentProgramId, currentProgram, signOut } = useSession();
   const { isWide } = useBreakpoints();
   if (!user) return null;
 
@@ -68,6 +69,8 @@ export function HomeScreen() {
           <ProgramSwitcher layout="list" />
         )}
       </Card>
+
+      {currentProgram ? <ProgramGlance programId={currentProgram.id} programCode={currentProgram.code} /> : null}
 
       <Button label="Sign out" icon="logout" variant="secondary" onPress={signOut} testID="home-sign-out" />
     </Screen>

@@ -11,6 +11,8 @@ export type NavItem = {
 /** Every place the shell links to, in order. Features add their entry here. */
 export const NAV_ITEMS: readonly NavItem[] = [
   { href: '/', label: 'Home', icon: 'home', roles: ROLES },
+  { href: '/assets', label: 'Assets', icon: 'assets', roles: ROLES },
+  { href: '/stages', label: 'Stages', icon: 'stages', roles: ['lead', 'engineer'] },
   { href: '/admin/users', label: 'Users', icon: 'users', roles: ['admin'] },
   { href: '/admin/programs', label: 'Programs', icon: 'programs', roles: ['admin'] },
 ];

@@ -17,12 +17,12 @@ const metrics = {
 
 describe('navigation items', () => {
   it.each<[Role, string[]]>([
-    ['technician', ['Home']],
-    ['engineer', ['Home']],
-    ['coordinator', ['Home']],
-    ['driver', ['Home']],
-    ['lead', ['Home']],
-    ['admin', ['Home', 'Users', 'Programs']],
+    ['technician', ['Home', 'Assets']],
+    ['engineer', ['Home', 'Assets', 'Stages']],
+    ['coordinator', ['Home', 'Assets']],
+    ['driver', ['Home', 'Assets']],
+    ['lead', ['Home', 'Assets', 'Stages']],
+    ['admin', ['Home', 'Assets', 'Users', 'Programs']],
   ])('a %s sees %j', (role, labels) => {
     expect(navItemsFor(role).map((item) => item.label)).toEqual(labels);
   });
@@ -37,30 +37,34 @@ describe('navigation items', () => {
     ['/admin/users', '/admin/users', true],
     ['/admin/programs', '/admin/programs/abc', true],
     ['/admin/programs', '/admin/programs-old', false],
+    ['/assets', '/assets/abc/checklist', true],
+    ['/assets', '/', false],
   ])('%s is active on %s: %s', (href, pathname, active) => {
     expect(isActiveHref(href, pathname)).toBe(active);
   });
 
-  it('the phone tab bar shows a technician only Home, and marks it as the current page', () => {
+  it('the phone tab bar shows a technician Home and Assets, and marks Home as the current page', () => {
     render(
       <SafeAreaProvider initialMetrics={metrics}>
         <TabBar items={navItemsFor('technician')} pathname="/" />
       </SafeAreaProvider>,
     );
     const bar = screen.getByTestId('shell-phone');
-    expect(bar.textContent).toBe('Home');
+    expect(bar.textContent).toBe('HomeAssets');
     expect(screen.queryByTestId('nav-users')).toBeNull();
     expect(screen.getByTestId('nav-home').getAttribute('aria-current')).toBe('page');
     expect(screen.getByLabelText('Home')).toBeTruthy();
   });
 
-  it('the phone tab bar gives an admin every item of the list', () => {
+  it('the phone tab bar gives an admin every item meant for admins', () => {
     render(
       <SafeAreaProvider initialMetrics={metrics}>
         <TabBar items={navItemsFor('admin')} pathname="/admin/users" />
       </SafeAreaProvider>,
     );
-    for (const item of NAV_ITEMS) expect(screen.getByTestId(`nav-${item.label.toLowerCase()}`)).toBeTruthy();
+    for (const item of navItemsFor('admin')) expect(screen.getByTestId(`nav-${item.label.toLowerCase()}`)).toBeTruthy();
+    expect(screen.queryByTestId('nav-stages')).toBeNull();
+    expect(NAV_ITEMS.map((item) => item.href)).toContain('/stages');
     expect(screen.getByTestId('nav-users').getAttribute('aria-current')).toBe('page');
     expect(screen.getByTestId('nav-home').getAttribute('aria-current')).toBeNull();
   });

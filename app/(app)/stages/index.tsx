@@ -1,0 +1,5 @@
+import { StagesScreen } from '@/components/stages/stages-screen';
+
+export default function StagesRoute() {
+  return <StagesScreen />;
+}

@@ -1,0 +1,306 @@
+import { useState, type ReactNode } from 'react';
+import { StyleSheet, View } from 'react-native';
+import { PhotoCount, PhotoGrid } from '@/components/photos/photo-grid';
+import { PhotoPicker } from '@/components/photos/photo-picker';
+import { Button } from '@/components/ui/button';
+import { Card } from '@/components/ui/card';
+import { Badge } from '@/components/ui/chip';
+import { PageTitle } from '@/components/ui/page-title';
+import { ProgressBar } from '@/components/ui/progress-bar';
+import { Screen } from '@/components/ui/screen';
+import { ErrorState, LoadingState, Notice } from '@/components/ui/states';
+import { Heading, Text } from '@/components/ui/text';
+import { TextLink } from '@/components/ui/text-link';
+import { colors, spacing } from '@/components/theme/tokens';
+import { errorMessage } from '@/hooks/api/api-client';
+import { useAssetQuery } from '@/hooks/queries/assets';
+import { useStagesQuery } from '@/hooks/queries/stages';
+import { useBreakpoints } from '@/hooks/use-breakpoints';
+import { useSession } from '@/hooks/use-session';
+import { ASSET_KIND_LABELS, type AssetDetail } from '@/shared/schemas/assets';
+import { AssetEditForm } from './asset-edit-form';
+import { AssetHistory } from './asset-history';
+import { NotClearedCaution, StatusBadge } from './asset-status';
+import { formatDate, formatDateTime, formatKm, progressCaption, progressFraction } from './asset-words';
+import { MoveStagePanel } from './move-stage-panel';
+import { can } from './permissions';
+import { VinCheckSummary } from './vin-field';
+
+export function AssetDetailScreen({ assetId }: { assetId: string }) {
+  const asset = useAssetQuery(assetId);
+  if (asset.isPending) {
+    return (
+      <Screen>
+        <LoadingState label="Loading the asset…" />
+      </Screen>
+    );
+  }
+  if (asset.isError) {
+    return (
+      <Screen>
+        <TextLink href="/assets" label="Back to assets" />
+        <ErrorState message={errorMessage(asset.error)} onRetry={() => void asset.refetch()} retrying={asset.isFetching} />
+      </Screen>
+    );
+  }
+  return <AssetDetail asset={asset.data} />;
+}
+
+function AssetDetail({ asset }: { asset: AssetDetail }) {
+  const { user } = useSession();
+  const { isWide } = useBreakpoints();
+  const stages = useStagesQuery(asset.programId);
+  const [mode, setMode] = useState<'view' | 'edit' | 'move'>('view');
+  const [notice, setNotice] = useState<string | null>(null);
+  const done = (message: string) => {
+    setMode('view');
+    setNotice(message || null);
+  };
+
+  const overview =
+    mode === 'edit' ? (
+      <AssetEditForm asset={asset} onDone={done} />
+    ) : (
+      <Card testID="asset-overview">
+        <View style={styles.cardHead}>
+          <Heading level={2} variant="heading">
+            Overview
+          </Heading>
+          {can.editAsset(user?.role) ? (
+            <Button label="Edit" variant="secondary" compact accessibilityLabel={`Edit ${asset.tag}`} onPress={() => setMode('edit')} testID="asset-edit-open" />
+          ) : null}
+        </View>
+        <Fact label="Kind">{ASSET_KIND_LABELS[asset.kind]}</Fact>
+        <Fact label="Status">
+          <StatusBadge status={asset.status} testID="asset-status" />
+        </Fact>
+        <Fact label="Location">{asset.location || '—'}</Fact>
+        <Fact label="VIN">
+          <View style={styles.vin}>
+            <Text selectable testID="asset-vin-value">
+              {asset.vin ?? 'None recorded'}
+            </Text>
+            {asset.vinCheck ? <VinCheckSummary check={asset.vinCheck} testID="asset-vin-check" /> : null}
+          </View>
+        </Fact>
+        <Fact label="Odometer">{formatKm(asset.odometerKm)}</Fact>
+        <Fact label="Build date">{formatDate(asset.buildDate)}</Fact>
+        <Fact label="Last change">{formatDateTime(asset.updatedAt)}</Fact>
+        {asset.notes ? <Fact label="Notes">{asset.notes}</Fact> : null}
+      </Card>
+    );
+
+  const stageCard = (
+    <Card testID="asset-stage-card">
+      <View style={styles.cardHead}>
+        <Heading level={2} variant="heading">
+          Stage
+        </Heading>
+        {can.moveStage(user?.role) && mode !== 'move' ? (
+          <Button label="Move to stage" variant="secondary" compact onPress={() => setMode('move')} testID="asset-move-stage" />
+        ) : null}
+      </View>
+      <Text variant="title" testID="asset-stage">
+        {asset.stage}
+      </Text>
+      {mode === 'move' ? (
+        stages.data ? (
+          <MoveStagePanel asset={asset} stages={stages.data} onDone={done} />
+        ) : stages.isError ? (
+          <ErrorState message={errorMessage(stages.error)} onRetry={() => void stages.refetch()} />
+        ) : (
+          <LoadingState label="Loading stages…" />
+        )
+      ) : null}
+      <StageHistory asset={asset} />
+    </Card>
+  );
+
+  const checklistCard = (
+    <Card testID="asset-checklist-summary">
+      <Heading level={2} variant="heading">
+        Checklist · {asset.stage}
+      </Heading>
+      <ProgressBar
+        value={progressFraction(asset.checklist)}
+        label="Checklist progress"
+        caption={`${progressCaption(asset.checklist)} · ${asset.checklist.requiredDone} of ${asset.checklist.requiredTotal} required for the gate`}
+      />
+      <TextLink href={`/assets/${asset.id}/checklist`} label="Open the checklist" testID="asset-checklist-link" />
+    </Card>
+  );
+
+  const photosCard = (
+    <Card testID="asset-photos">
+      <Heading level={2} variant="heading">
+        Photos
+      </Heading>
+      <PhotoCount count={asset.photos.length} />
+      <PhotoGrid photos={asset.photos} label={asset.tag} testID="asset-photo-grid" />
+      <PhotoPicker assetId={asset.id} testID="asset-add-photo" label="Add photo" />
+    </Card>
+  );
+
+  const historyCard = (
+    <Card>
+      <Heading level={2} variant="heading">
+        History
+      </Heading>
+      <AssetHistory assetId={asset.id} />
+    </Card>
+  );
+
+  return (
+    <Screen testID="asset-detail">
+      <PageTitle title={asset.tag} />
+      <TextLink href="/assets" label="Back to assets" testID="asset-back" />
+      <View style={styles.header}>
+        <View style={styles.headerText}>
+          <Text variant="caption" tone="muted">
+            {asset.program.code} · {ASSET_KIND_LABELS[asset.kind]}
+          </Text>
+          <Heading level={1} variant="display" testID="asset-tag" selectable>
+            {asset.tag}
+          </Heading>
+          <View style={styles.badges}>
+            <StatusBadge status={asset.status} />
+            <Badge label={asset.stage} tone="primary" />
+            {asset.location ? <Badge label={asset.location} /> : null}
+          </View>
+        </View>
+        <TextLink href={`/assets/${asset.id}/label`} label="Label" testID="asset-label-link" />
+      </View>
+      {asset.cleared ? null : <NotClearedCaution reason={asset.notClearedReason} />}
+      {notice ? <Notice tone="success" message={notice} testID="asset-notice" /> : null}
+      {isWide ? (
+        <View style={styles.columns}>
+          <View style={styles.column}>
+            {overview}
+            {stageCard}
+          </View>
+          <View style={styles.column}>
+            {checklistCard}
+            {photosCard}
+            {historyCard}
+          </View>
+        </View>
+      ) : (
+        <>
+          {checklistCard}
+          {overview}
+          {stageCard}
+          {photosCard}
+          {historyCard}
+        </>
+      )}
+    </Screen>
+  );
+}
+
+function StageHistory({ asset }: { asset: AssetDetail }) {
+  if (asset.stageHistory.length === 0) return null;
+  const visits = [...asset.stageHistory].sort((a, b) => b.enteredAt.localeCompare(a.enteredAt));
+  return (
+    <View style={styles.visits} testID="asset-stage-history">
+      <Text variant="label">Stage history</Text>
+      {visits.map((visit, index) => {
+        const current = visit.leftAt === null;
+        return (
+          <View key={visit.id ?? `${visit.stageId}-${index}`} style={styles.visit}>
+            <View style={styles.visitHead}>
+              <Text variant="bodyStrong">{visit.stage}</Text>
+              {current ? <Badge label="Current" tone="success" /> : null}
+            </View>
+            <Text variant="caption" tone="muted">
+              {current
+                ? `Since ${formatDate(visit.enteredAt)}`
+                : `${formatDate(visit.enteredAt)} to ${formatDate(visit.leftAt)}`}
+              {visit.by ? ` · moved by ${visit.by}` : ''}
+            </Text>
+            <ProgressBar value={progressFraction(visit.checklist)} label={`Checklist of ${visit.stage}`} caption={progressCaption(visit.checklist)} size="sm" />
+            {!current && visit.id ? (
+              <TextLink href={`/assets/${asset.id}/checklist?visitId=${visit.id}`} label={`Read the ${visit.stage} checklist`} />
+            ) : null}
+          </View>
+        );
+      })}
+    </View>
+  );
+}
+
+function Fact({ label, children }: { label: string; children: ReactNode }) {
+  return (
+    <View style={styles.fact}>
+      <Text variant="label" tone="muted" style={styles.factLabel}>
+        {label}
+      </Text>
+      <View style={styles.factValue}>{typeof children === 'string' ? <Text>{children}</Text> : children}</View>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  header: {
+    flexDirection: 'row',
+    alignItems: 'flex-start',
+    justifyContent: 'space-between',
+    gap: spacing.md,
+  },
+  headerText: {
+    flex: 1,
+    minWidth: 0,
+    gap: spacing.xs,
+  },
+  badges: {
+    flexDirection: 'row',
+    flexWrap: 'wrap',
+    gap: spacing.xs,
+  },
+  columns: {
+    flexDirection: 'row',
+    alignItems: 'flex-start',
+    gap: spacing.xl,
+  },
+  column: {
+    flex: 1,
+    minWidth: 0,
+    gap: spacing.xl,
+  },
+  cardHead: {
+    flexDirection: 'row',
+    alignItems: 'center',
+    justifyContent: 'space-between',
+    gap: spacing.md,
+  },
+  fact: {
+    flexDirection: 'row',
+    gap: spacing.md,
+    alignItems: 'flex-start',
+  },
+  factLabel: {
+    width: 96,
+    paddingTop: spacing.xxs,
+  },
+  factValue: {
+    flex: 1,
+    minWidth: 0,
+    alignItems: 'flex-start',
+  },
+  vin: {
+    gap: spacing.xs,
+  },
+  visits: {
+    gap: spacing.md,
+  },
+  visit: {
+    gap: spacing.xxs,
+    paddingTop: spacing.sm,
+    borderTopWidth: 1,
+    borderTopColor: colors.border,
+  },
+  visitHead: {
+    flexDirection: 'row',
+    alignItems: 'center',
+    gap: spacing.sm,
+  },
+});
