@@ -43,3 +43,13 @@ export async function signIn(page: Page, email: string, password = 'proofyard-de
   await page.getByTestId('sign-in-password').fill(password);
   await page.getByTestId('sign-in-submit').click();
 }
+
+/** Polls `check` until it returns true (jest has no expect.poll); fails with `what` after the timeout. */
+export async function waitUntil(what: string, check: () => Promise<boolean>, timeoutMs = 10_000): Promise<void> {
+  const until = Date.now() + timeoutMs;
+  while (Date.now() < until) {
+    if (await check().catch(() => false)) return;
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  throw new Error(`timed out waiting until ${what}`);
+}
