@@ -27,6 +27,7 @@ module.exports = {
     nodeProject('shared', 'tests/shared'),
     nodeProject('server', 'tests/server'),
     require('./jest.client.config.js'),
+    nodeProject('fault', 'tests/fault'),
     nodeProject('e2e', 'tests/e2e'),
   ],
 };

@@ -1,12 +1,17 @@
-import { parseConfig } from '../server/config/env';
+// `npm run db:migrate`: applies the migrations to DATABASE_URL (or the local cluster of `npm start`).
 import { createSequelize } from '../server/db/sequelize';
 import { migrateUp } from '../server/db/migrate';
+import { withDatabase } from './lib/local-db';
 
-async function main() {
-  const config = parseConfig({ JWT_SECRET: 'x'.repeat(32), ...process.env });
-  const sequelize = createSequelize(config.databaseUrl);
-  const done = await migrateUp(sequelize);
-  console.log(`Applied ${done.length} migration(s).`);
-  await sequelize.close();
-}
-void main();
+withDatabase(async (url) => {
+  const sequelize = createSequelize(url);
+  try {
+    const done = await migrateUp(sequelize);
+    console.log(`Applied ${done.length} migration(s).`);
+  } finally {
+    await sequelize.close();
+  }
+}).catch((err) => {
+  console.error(err instanceof Error ? err.message : err);
+  process.exit(1);
+});

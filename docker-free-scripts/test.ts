@@ -73,7 +73,7 @@ async function main() {
   const jestOut = path.join(tmpRoot, 'jest.json');
   const unitProjects = ['shared', 'server', 'client'];
   const selected = only ? only.split(',') : unitProjects;
-  const unit = selected.filter((p) => p !== 'e2e');
+  const unit = selected.filter((p) => p !== 'e2e' && p !== 'fault');
   if (unit.length) {
     ok = step('unit and API tests (jest)', bin('jest'), ['--selectProjects', ...unit, '--ci', '--json', `--outputFile=${jestOut}`, ...patterns], testEnv) && ok;
   }
@@ -85,6 +85,13 @@ async function main() {
     totals.failed += r.numFailedTests + (r.numRuntimeErrorTestSuites ?? 0);
   };
   addTotals(jestOut);
+
+  if (!only || selected.includes('fault')) {
+    // The fault suite stops and starts services of its own, one test at a time.
+    const faultOut = path.join(tmpRoot, 'fault.json');
+    ok = step('fault suite (jest)', bin('jest'), ['--selectProjects', 'fault', '--ci', '--runInBand', '--forceExit', '--json', `--outputFile=${faultOut}`, ...patterns], testEnv) && ok;
+    addTotals(faultOut);
+  }
 
   if (!only || selected.includes('e2e')) {
     try {

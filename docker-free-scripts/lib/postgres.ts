@@ -43,7 +43,7 @@ export function clusterDirFor(projectDir: string, name: string): string {
   return path.join('/var/lib/proofyard', `${path.basename(projectDir)}-${hash}`, name);
 }
 
-export type Cluster = { dataDir: string; port: number; url: (db: string) => string; stop: () => void };
+export type Cluster = { dataDir: string; port: number; startedHere: boolean; url: (db: string) => string; stop: () => void };
 
 const USER = 'proofyard';
 const PASSWORD = 'proofyard';
@@ -75,7 +75,8 @@ export async function startCluster(opts: { dataDir: string; port: number; durabl
     opts.durable ? '-c fsync=on -c synchronous_commit=on' : '-c fsync=off -c synchronous_commit=off -c full_page_writes=off',
   ].join(' ');
   const status = asPostgres(path.join(bin, 'pg_ctl'), ['-D', dataDir, 'status'], { allowFail: true });
-  if (status.status !== 0) {
+  const startedHere = status.status !== 0;
+  if (startedHere) {
     fs.rmSync(path.join(dataDir, 'postmaster.pid'), { force: true });
     asPostgres(path.join(bin, 'pg_ctl'), ['-D', dataDir, '-l', path.join(dataDir, 'server.log'), '-o', settings, '-w', '-t', '60', 'start']);
   }
@@ -83,6 +84,7 @@ export async function startCluster(opts: { dataDir: string; port: number; durabl
   return {
     dataDir,
     port,
+    startedHere,
     url,
     stop: () => {
       asPostgres(path.join(bin, 'pg_ctl'), ['-D', dataDir, '-m', 'fast', '-w', 'stop'], { allowFail: true });

@@ -1,6 +1,10 @@
 import type { Readable } from 'node:stream';
 import { DeleteObjectCommand, GetObjectCommand, NoSuchKey, PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
 import type { Config } from '../config/env';
+import { AppError } from '../lib/app-error';
+
+const unavailable = () =>
+  new AppError(503, 'storage/unavailable', 'Photo storage cannot be reached right now, so the file was not saved. Try again in a moment.');
 
 export type StoredObject = { body: Readable; contentType: string | undefined; contentLength: number | undefined };
 
@@ -29,7 +33,11 @@ export function createStorage(s3: Config['s3']): Storage {
   const Bucket = s3.bucket;
   return {
     async put(key, body, contentType) {
-      await client.send(new PutObjectCommand({ Bucket, Key: key, Body: body, ContentType: contentType, ContentLength: body.length }));
+      try {
+        await client.send(new PutObjectCommand({ Bucket, Key: key, Body: body, ContentType: contentType, ContentLength: body.length }));
+      } catch {
+        throw unavailable();
+      }
     },
     async get(key) {
       try {
@@ -37,7 +45,7 @@ export function createStorage(s3: Config['s3']): Storage {
         return { body: out.Body as Readable, contentType: out.ContentType, contentLength: out.ContentLength };
       } catch (err) {
         if (err instanceof NoSuchKey || (err as { name?: string }).name === 'NoSuchKey') return null;
-        throw err;
+        throw unavailable();
       }
     },
     async delete(key) {
