@@ -1,7 +1,6 @@
 import { WorkSans_400Regular } from '@expo-google-fonts/work-sans/400Regular';
 import { WorkSans_500Medium } from '@expo-google-fonts/work-sans/500Medium';
 import { WorkSans_600SemiBold } from '@expo-google-fonts/work-sans/600SemiBold';
-import { QueryClientProvider } from '@tanstack/react-query';
 import { FontDisplay, useFonts } from 'expo-font';
 import { Slot } from 'expo-router';
 import { StatusBar } from 'expo-status-bar';
@@ -11,6 +10,7 @@ import { SafeAreaProvider } from 'react-native-safe-area-context';
 import { FontStateProvider } from '@/components/theme/font-state';
 import { colors } from '@/components/theme/tokens';
 import { makeQueryClient } from '@/hooks/api/query-client';
+import { OfflineQueryProvider } from '@/hooks/offline/offline-query-provider';
 import { SessionProvider } from '@/hooks/use-session';
 
 // Text paints at once in the system font and swaps to Work Sans when it arrives.
@@ -26,7 +26,7 @@ export default function RootLayout() {
 
   return (
     <SafeAreaProvider>
-      <QueryClientProvider client={queryClient}>
+      <OfflineQueryProvider client={queryClient}>
         <SessionProvider>
           <FontStateProvider loaded={fontsLoaded}>
             <StatusBar style="dark" />
@@ -35,7 +35,7 @@ export default function RootLayout() {
             </View>
           </FontStateProvider>
         </SessionProvider>
-      </QueryClientProvider>
+      </OfflineQueryProvider>
     </SafeAreaProvider>
   );
 }

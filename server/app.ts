@@ -10,6 +10,10 @@ import { adminRoutes } from './routes/admin';
 import { assetRoutes } from './routes/assets';
 import { authRoutes } from './routes/auth';
 import { findingRoutes } from './routes/findings';
+import { validationRoutes } from './routes/validation';
+import { softwareRoutes } from './routes/software';
+import { fleetRoutes } from './routes/fleet';
+import { readinessRoutes } from './routes/readiness';
 import { stageRoutes } from './routes/stages';
 import { systemRoutes } from './routes/system';
 
@@ -53,6 +57,10 @@ export function createApp(deps: Deps, options: AppOptions = {}) {
   stageRoutes(api, deps, table);
   assetRoutes(api, deps, table);
   findingRoutes(api, deps, table);
+  validationRoutes(api, deps, table);
+  softwareRoutes(api, deps, table);
+  fleetRoutes(api, deps, table);
+  readinessRoutes(api, deps, table);
   api.use(notFoundRoute);
   app.use('/api', api);
 

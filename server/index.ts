@@ -6,7 +6,9 @@ import { initModels } from './db/models';
 import { createMailer } from './integrations/mailer';
 import { createStorage } from './integrations/storage';
 import { startOutboxLoop } from './services/outbox';
-import { startJobLoop } from './services/jobs';
+import { JOBS, startJobLoop } from './services/jobs';
+import { FLEET_JOBS } from './services/fleet-jobs';
+import { READINESS_JOBS } from './services/readiness-jobs';
 import type { Deps } from './deps';
 
 async function main() {
@@ -31,7 +33,7 @@ async function main() {
   };
   const { app } = createApp(deps, { webDist: process.env.WEB_DIST ?? path.resolve(__dirname, '..', 'dist') });
   const stopOutbox = startOutboxLoop(deps);
-  const stopJobs = startJobLoop(deps);
+  const stopJobs = startJobLoop(deps, undefined, [...JOBS, ...FLEET_JOBS, ...READINESS_JOBS]);
   const server = app.listen(config.port, () => {
     console.log(`[proofyard] API and web app on http://localhost:${config.port}`);
   });

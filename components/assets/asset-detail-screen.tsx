@@ -1,5 +1,6 @@
 import { useState, type ReactNode } from 'react';
 import { StyleSheet, View } from 'react-native';
+import { AssetFindingsCard } from '@/components/findings/asset-findings-card';
 import { PhotoCount, PhotoGrid } from '@/components/photos/photo-grid';
 import { PhotoPicker } from '@/components/photos/photo-picker';
 import { Button } from '@/components/ui/button';
@@ -172,6 +173,8 @@ function AssetDetail({ asset }: { asset: AssetDetail }) {
       </View>
       {asset.cleared ? null : <NotClearedCaution reason={asset.notClearedReason} />}
       {notice ? <Notice tone="success" message={notice} testID="asset-notice" /> : null}
+      <AssetFindingsCard assetId={asset.id} programId={asset.programId} />
+      <TextLink href={`/assets/${asset.id}/campaigns`} label="Test campaigns" testID="asset-campaigns-link" />
       {isWide ? (
         <View style={styles.columns}>
           <View style={styles.column}>

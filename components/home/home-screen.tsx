@@ -1,4 +1,5 @@
 import { StyleSheet, View } from 'react-native';
+import { EmailPrefsCard } from '@/components/findings/email-prefs-card';
 import { ProgramSwitcher } from '@/components/shell/program-switcher';
 import { Button } from '@/components/ui/button';
 import { Card } from '@/components/ui/card';
@@ -71,6 +72,8 @@ export function HomeScreen() {
       </Card>
 
       {currentProgram ? <ProgramGlance programId={currentProgram.id} programCode={currentProgram.code} /> : null}
+
+      {user.role === 'admin' ? null : <EmailPrefsCard />}
 
       <Button label="Sign out" icon="logout" variant="secondary" onPress={signOut} testID="home-sign-out" />
     </Screen>

@@ -1,4 +1,5 @@
 import type { IconName } from '@/components/ui/icon';
+import { FINDING_MEMBER_ROLES } from '@/shared/domain/finding-workflow';
 import { ROLES, type Role } from '@/shared/schemas/auth';
 
 export type NavItem = {
@@ -12,6 +13,8 @@ export type NavItem = {
 export const NAV_ITEMS: readonly NavItem[] = [
   { href: '/', label: 'Home', icon: 'home', roles: ROLES },
   { href: '/assets', label: 'Assets', icon: 'assets', roles: ROLES },
+  { href: '/findings', label: 'Findings', icon: 'warning', roles: FINDING_MEMBER_ROLES },
+  { href: '/validation', label: 'Validation', icon: 'check', roles: ['engineer', 'lead', 'technician'] },
   { href: '/stages', label: 'Stages', icon: 'stages', roles: ['lead', 'engineer'] },
   { href: '/admin/users', label: 'Users', icon: 'users', roles: ['admin'] },
   { href: '/admin/programs', label: 'Programs', icon: 'programs', roles: ['admin'] },

@@ -35,11 +35,13 @@ export type RequestOptions<T> = {
   /** Send the session's bearer token (default). Auth endpoints pass false. */
   auth?: boolean;
   signal?: AbortSignal;
+  /** Extra request headers, such as `Idempotency-Key`. */
+  headers?: Record<string, string>;
 };
 
 export async function apiRequest<T = unknown>(path: string, options: RequestOptions<T> = {}): Promise<T> {
   const { method = 'GET', body, schema, auth = true, signal } = options;
-  const headers: Record<string, string> = { Accept: 'application/json' };
+  const headers: Record<string, string> = { Accept: 'application/json', ...options.headers };
   if (body !== undefined) headers['Content-Type'] = 'application/json';
   const token = auth ? sessionStore.getToken() : null;
   if (token) headers.Authorization = `Bearer ${token}`;

@@ -8,6 +8,7 @@ import {
   type QueryClient,
 } from '@tanstack/react-query';
 import { apiRequest, isApiError } from '@/hooks/api/api-client';
+import { queueKeys } from '@/hooks/offline/queue-keys';
 import { stageKeys } from '@/hooks/queries/stages';
 import { API } from '@/shared/api/paths';
 import { checklistProgress } from '@/shared/domain/checklist';
@@ -213,6 +214,8 @@ export function useUpdateChecklistItemMutation(assetId: string) {
   const queryClient = useQueryClient();
   const key = assetKeys.checklist(assetId);
   return useMutation({
+    // Queued offline: kept on the device and resumed after a reload (defaults in hooks/offline).
+    mutationKey: queueKeys.checklistItem(),
     mutationFn: ({ itemId, assetId: _assetId, version, ...body }: ChecklistItemChange) => {
       const latest = cachedItem(queryClient.getQueryData<Checklist>(key), itemId)?.version ?? version;
       return apiRequest(API.checklistItem(itemId), {

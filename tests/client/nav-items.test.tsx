@@ -17,11 +17,11 @@ const metrics = {
 
 describe('navigation items', () => {
   it.each<[Role, string[]]>([
-    ['technician', ['Home', 'Assets']],
-    ['engineer', ['Home', 'Assets', 'Stages']],
-    ['coordinator', ['Home', 'Assets']],
-    ['driver', ['Home', 'Assets']],
-    ['lead', ['Home', 'Assets', 'Stages']],
+    ['technician', ['Home', 'Assets', 'Findings']],
+    ['engineer', ['Home', 'Assets', 'Findings', 'Stages']],
+    ['coordinator', ['Home', 'Assets', 'Findings']],
+    ['driver', ['Home', 'Assets', 'Findings']],
+    ['lead', ['Home', 'Assets', 'Findings', 'Stages']],
     ['admin', ['Home', 'Assets', 'Users', 'Programs']],
   ])('a %s sees %j', (role, labels) => {
     expect(navItemsFor(role).map((item) => item.label)).toEqual(labels);
@@ -43,14 +43,14 @@ describe('navigation items', () => {
     expect(isActiveHref(href, pathname)).toBe(active);
   });
 
-  it('the phone tab bar shows a technician Home and Assets, and marks Home as the current page', () => {
+  it('the phone tab bar shows a technician Home, Assets and Findings, and marks Home as the current page', () => {
     render(
       <SafeAreaProvider initialMetrics={metrics}>
         <TabBar items={navItemsFor('technician')} pathname="/" />
       </SafeAreaProvider>,
     );
     const bar = screen.getByTestId('shell-phone');
-    expect(bar.textContent).toBe('HomeAssets');
+    expect(bar.textContent).toBe('HomeAssetsFindings');
     expect(screen.queryByTestId('nav-users')).toBeNull();
     expect(screen.getByTestId('nav-home').getAttribute('aria-current')).toBe('page');
     expect(screen.getByLabelText('Home')).toBeTruthy();

@@ -6,6 +6,10 @@ import type { Config } from '../../config/env';
 import { createStorage } from '../../integrations/storage';
 import { seedAssets } from './assets-seed';
 import { seedFindings } from './findings-seed';
+import { seedValidation } from './validation-seed';
+import { seedSoftware } from './software-seed';
+import { seedFleet } from './fleet-seed';
+import { seedReadiness } from './readiness-seed';
 
 /** Demo password shared by every demo account (printed by `npm start`, listed in the README). */
 export const DEMO_PASSWORD = 'proofyard-demo';
@@ -105,6 +109,13 @@ export async function seedDemo(sequelize: Sequelize, opts: Pick<Config, 'bcryptR
       }
       await seedAssets({ transaction, storage, now: Date.now() }, fw3, people.get(fw3.id)!, m1, people.get(m1.id)!);
       await seedFindings({ transaction, now: Date.now() }, fw3, people.get(fw3.id)!);
+      await seedSoftware({ transaction, now: Date.now() }, fw3, people.get(fw3.id)!);
+      await seedFleet({ transaction, now: Date.now() }, fw3, people.get(fw3.id)!);
+      await seedValidation({ transaction, now: Date.now() }, fw3, people.get(fw3.id)!);
+      await seedReadiness({ transaction, now: Date.now() }, [
+        { program: fw3, people: people.get(fw3.id)!, history: true },
+        { program: m1, people: people.get(m1.id)!, history: false },
+      ]);
     });
   } finally {
     storage.close();

@@ -3,8 +3,12 @@ import type { Role } from '../../../shared/schemas/auth';
 import type { AssetKind, AssetStatus, GateSettings, ItemState, System } from '../../../shared/schemas/assets';
 import type { FindingSeverity, FindingStatus } from '../../../shared/schemas/findings';
 import { initFindingModels } from './findings';
+import { initValidationModels } from './validation';
+import { initSoftwareModels } from './software';
 
 export { FindingComment, FindingWatcher } from './findings';
+export { Campaign, CampaignStep, TestAllocation, ValidationTest } from './validation';
+export { Baseline, BaselineRule, BaselineTarget, Ecu } from './software';
 
 export class Program extends Model<InferAttributes<Program>, InferCreationAttributes<Program>> {
   declare id: CreationOptional<string>;
@@ -423,5 +427,7 @@ export function initModels(sequelize: Sequelize) {
     { sequelize, tableName: 'photos', updatedAt: false },
   );
   initFindingModels(sequelize);
+  initValidationModels(sequelize);
+  initSoftwareModels(sequelize);
   return { Program, User, ProgramMember, AuthLink, OutboxMessage, HistoryEntry, Stage, TemplateItem, Asset, StageVisit, ChecklistItem, Finding, Photo };
 }

@@ -1,0 +1,320 @@
+import { QueryTypes, type Transaction } from 'sequelize';
+import { isPastDueDate } from '../../shared/domain/finding-workflow';
+import { computeReadiness, rollUpStage, type AssetFigure, type ReadinessFinding, type ReadinessInput } from '../../shared/domain/readiness';
+import { TREND_SERIES_DAYS, TREND_WINDOW_DAYS, addDays, fitLoadTrend, forecastStage, isoDay, meetsTarget, type LoadPoint } from '../../shared/domain/trend';
+import type { AssetKind, AssetStatus, GateSettings } from '../../shared/schemas/assets';
+import { CLOSED_FINDING_STATUSES, type FindingSeverity, type FindingStatus } from '../../shared/schemas/findings';
+import type {
+  AssetReadiness,
+  ProgramReadiness,
+  ResultCounts,
+  SetTargetDate,
+  StageRollup,
+  StageTrend,
+  TargetDateResult,
+} from '../../shared/schemas/readiness';
+import { Stage } from '../db/models';
+import type { Deps } from '../deps';
+import { AppError, notFound } from '../lib/app-error';
+import type { SessionUser } from '../middleware/auth';
+import { visibleAsset } from './assets';
+import { recordHistory } from './history';
+import { evaluateAsset, loadEcus, loadReleasedBaselines, type AssetEvaluation } from './software-common';
+import { assertMember } from './stages';
+import { validationPartsForAssets } from './validation';
+
+// Readiness is computed here, in one place, for one asset, one stage or a whole program, in a
+// fixed number of statements whatever the number of assets (issue 7): the stages with their gate
+// settings and target dates; the assets with their open checklist's required items and their
+// installed software folded in; the open findings; the ECU catalogue; the released baselines;
+// the validation parts (validationPartsForAssets). The pure function in shared/domain/readiness
+// does the arithmetic. The roll-up and the trend read one more: the stage snapshots.
+
+const CLOSED_SQL = CLOSED_FINDING_STATUSES.map((s) => `'${s}'`).join(', ');
+
+export type ReadinessScope = {
+  programId: string;
+  assetId?: string;
+  stageId?: string;
+  /** Retired assets never go through a gate: the roll-up, snapshots and forecast leave them out. */
+  includeRetired?: boolean;
+};
+
+export type StageInfo = { id: string; name: string; position: number; retired: boolean; gate: GateSettings; targetDate: string | null };
+
+export type AssetResult = AssetFigure & { stageId: string; kind: AssetKind; status: AssetStatus };
+
+export type Figures = { programId: string; asOf: Date; stages: StageInfo[]; assets: AssetResult[] };
+
+type AssetRow = {
+  id: string;
+  tag: string;
+  kind: AssetKind;
+  stage_id: string;
+  status: AssetStatus;
+  required_total: number;
+  required_done: number;
+  open_required: Array<{ id: string; title: string }>;
+  cfg: string | null;
+};
+
+/** Every figure readiness needs for the scope, and each asset's readiness. */
+export async function computeFigures(deps: Deps, scope: ReadinessScope, asOf: Date, transaction?: Transaction): Promise<Figures> {
+  const { sequelize } = deps;
+  const stageRows = await sequelize.query<{ id: string; name: string; position: number; retired: boolean; gate: GateSettings; target_date: string | null }>(
+    `SELECT s.id, s.name, s.position, s.retired, s.gate, g.target_date::text AS target_date
+       FROM stages s LEFT JOIN gate_target_dates g ON g.stage_id = s.id
+      WHERE s.program_id = $1 ORDER BY s.position, s.id`,
+    { bind: [scope.programId], type: QueryTypes.SELECT, transaction },
+  );
+  const stages: StageInfo[] = stageRows.map((s) => ({ id: s.id, name: s.name, position: s.position, retired: s.retired, gate: s.gate, targetDate: s.target_date }));
+
+  // $1 program, $2 one asset or NULL, $3 one stage or NULL, $4 whether retired assets count.
+  const bind = [scope.programId, scope.assetId ?? null, scope.stageId ?? null, scope.includeRetired ?? false];
+  const inScope = `a.program_id = $1 AND ($2::uuid IS NULL OR a.id = $2::uuid) AND ($3::uuid IS NULL OR a.stage_id = $3::uuid)
+                   AND ($4::boolean OR a.status <> 'retired')`;
+  const assetRows = await sequelize.query<AssetRow>(
+    `WITH scoped AS (SELECT a.id, a.tag, a.kind, a.stage_id, a.status FROM assets a WHERE ${inScope}),
+     ck AS (
+       SELECT ci.asset_id,
+              count(*) FILTER (WHERE ci.required_for_gate)::int AS required_total,
+              count(*) FILTER (WHERE ci.required_for_gate AND ci.state IN ('passed', 'not-applicable'))::int AS required_done,
+              jsonb_agg(jsonb_build_object('id', ci.id, 'title', ci.title) ORDER BY ci.position, ci.id)
+                FILTER (WHERE ci.required_for_gate AND ci.state NOT IN ('passed', 'not-applicable')) AS open_required
+         FROM stage_visits v JOIN checklist_items ci ON ci.visit_id = v.id
+        WHERE v.left_at IS NULL AND v.program_id = $1 AND v.asset_id IN (SELECT id FROM scoped)
+        GROUP BY ci.asset_id
+     ),
+     sw AS (
+       SELECT i.asset_id, json_object_agg(i.ecu_id, i.software_version ORDER BY i.ecu_id)::text AS cfg
+         FROM installed_software i
+        WHERE i.program_id = $1 AND i.asset_id IN (SELECT id FROM scoped)
+        GROUP BY i.asset_id
+     )
+     SELECT a.id, a.tag, a.kind, a.stage_id, a.status,
+            coalesce(ck.required_total, 0) AS required_total, coalesce(ck.required_done, 0) AS required_done,
+            coalesce(ck.open_required, '[]'::jsonb) AS open_required, sw.cfg
+       FROM scoped a LEFT JOIN ck ON ck.asset_id = a.id LEFT JOIN sw ON sw.asset_id = a.id
+      ORDER BY a.tag, a.id`,
+    { bind, type: QueryTypes.SELECT, transaction },
+  );
+  const findingRows = await sequelize.query<{ id: string; asset_id: string; title: string; severity: FindingSeverity; status: FindingStatus; due_date: string | null }>(
+    `SELECT f.id, f.asset_id, f.title, f.severity, f.status, f.due_date::text AS due_date
+       FROM findings f JOIN assets a ON a.id = f.asset_id
+      WHERE f.program_id = $1 AND f.status NOT IN (${CLOSED_SQL}) AND ${inScope}`,
+    { bind, type: QueryTypes.SELECT, transaction },
+  );
+  const ecus = await loadEcus(deps, scope.programId, transaction);
+  const baselines = await loadReleasedBaselines(deps, scope.programId, undefined, transaction);
+  const validation = await validationPartsForAssets(
+    sequelize,
+    scope.assetId || scope.stageId ? assetRows.map((a) => a.id) : scope.programId,
+    transaction,
+  );
+
+  const findingsByAsset = new Map<string, ReadinessFinding[]>();
+  for (const f of findingRows) {
+    const list = findingsByAsset.get(f.asset_id) ?? [];
+    list.push({ id: f.id, title: f.title, severity: f.severity, status: f.status, dueDate: f.due_date });
+    findingsByAsset.set(f.asset_id, list);
+  }
+  const ecuCode = new Map(ecus.map((e) => [e.id, e.code]));
+  const gateOf = new Map(stages.map((s) => [s.id, s.gate]));
+  // Assets of one stage and kind with the same installed versions share one conformance.
+  const software = new Map<string, AssetEvaluation>();
+
+  const assets = assetRows.map((a): AssetResult => {
+    const key = `${a.stage_id}|${a.kind}|${a.cfg ?? ''}`;
+    let evaluation = software.get(key);
+    if (!evaluation) {
+      const installed = a.cfg ? (JSON.parse(a.cfg) as Record<string, string>) : {};
+      evaluation = evaluateAsset({ kind: a.kind, stageId: a.stage_id }, installed, ecus, baselines.get(a.stage_id));
+      software.set(key, evaluation);
+    }
+    const v = validation.get(a.id) ?? { allocated: 0, passed: 0, notPassed: [] };
+    const input: Omit<ReadinessInput, 'gate' | 'asOf'> = {
+      checklist: { requiredTotal: a.required_total, requiredPassedOrNa: a.required_done, openRequired: a.open_required },
+      findings: findingsByAsset.get(a.id) ?? [],
+      software: {
+        inBaseline: evaluation.result.expected,
+        onBaseline: evaluation.result.onBaseline,
+        offBaseline: evaluation.result.ecus
+          .filter((e) => e.target !== null && !e.countsAsOnBaseline)
+          .map((e) => ({ ecuId: e.ecuId, code: ecuCode.get(e.ecuId) ?? '?', status: e.status }))
+          .sort((x, y) => x.code.localeCompare(y.code)),
+      },
+      validation: { allocated: v.allocated, passed: v.passed, notPassed: v.notPassed },
+    };
+    const gate = gateOf.get(a.stage_id)!;
+    return { id: a.id, tag: a.tag, stageId: a.stage_id, kind: a.kind, status: a.status, input, readiness: computeReadiness({ ...input, gate, asOf }) };
+  });
+  return { programId: scope.programId, asOf, stages, assets };
+}
+
+// ---- One asset ----------------------------------------------------------------------------
+
+export async function assetReadiness(deps: Deps, user: SessionUser, assetId: string, asOf = new Date()): Promise<AssetReadiness> {
+  const asset = await visibleAsset(user, assetId);
+  const figures = await computeFigures(deps, { programId: asset.programId, assetId: asset.id, includeRetired: true }, asOf);
+  const figure = figures.assets[0];
+  if (!figure) throw notFound('This asset');
+  const stage = figures.stages.find((s) => s.id === figure.stageId);
+  return { ...figure.readiness, assetId: figure.id, tag: figure.tag, stageId: figure.stageId, stage: stage?.name ?? '', asOf: asOf.toISOString() };
+}
+
+// ---- Stage roll-ups -------------------------------------------------------------------------
+
+/** Daily stage loads of the program (or one stage) for the `days` days up to `asOf`'s day: one statement. */
+export async function stageSeries(
+  deps: Deps,
+  where: { programId: string; stageId?: string },
+  asOf: Date,
+  days: number,
+  transaction?: Transaction,
+): Promise<Map<string, Array<LoadPoint & { meanScore: number | null; assetCount: number; counts: ResultCounts }>>> {
+  const toDate = isoDay(asOf);
+  const rows = await deps.sequelize.query<{ stage_id: string; date: string; score: number | null; load: number; asset_count: number; counts: Partial<ResultCounts> }>(
+    `SELECT stage_id, snapshot_date::text AS date, score, open_findings_load AS load, asset_count, counts
+       FROM readiness_snapshots
+      WHERE program_id = $1 AND asset_id IS NULL AND ($2::uuid IS NULL OR stage_id = $2::uuid)
+        AND snapshot_date BETWEEN $3::date AND $4::date
+      ORDER BY stage_id, snapshot_date`,
+    { bind: [where.programId, where.stageId ?? null, addDays(toDate, -(days - 1)), toDate], type: QueryTypes.SELECT, transaction },
+  );
+  const out = new Map<string, Array<LoadPoint & { meanScore: number | null; assetCount: number; counts: ResultCounts }>>();
+  for (const r of rows) {
+    const list = out.get(r.stage_id) ?? [];
+    list.push({
+      date: r.date,
+      load: r.load,
+      meanScore: r.score,
+      assetCount: r.asset_count,
+      counts: { go: r.counts.go ?? 0, conditional: r.counts.conditional ?? 0, noGo: r.counts.noGo ?? 0 },
+    });
+    out.set(r.stage_id, list);
+  }
+  return out;
+}
+
+/** The stages a roll-up shows: every stage in use, and a retired one only while assets are on it. */
+export function rollupStages(figures: Pick<Figures, 'stages' | 'assets'>): StageInfo[] {
+  const inUse = new Set(figures.assets.map((a) => a.stageId));
+  return figures.stages.filter((s) => !s.retired || inUse.has(s.id));
+}
+
+export function stageRollup(stage: StageInfo, assets: readonly AssetResult[], series: readonly LoadPoint[], asOf: Date): StageRollup {
+  const figures = rollUpStage(assets);
+  const forecast = forecastStage(series, { gate: stage.gate, assetCount: figures.assetCount, meanParts: figures.meanParts }, asOf);
+  return {
+    stageId: stage.id,
+    name: stage.name,
+    position: stage.position,
+    gate: stage.gate,
+    ...figures,
+    targetDate: stage.targetDate,
+    forecast,
+    meetsTarget: meetsTarget(forecast, stage.targetDate),
+  };
+}
+
+/** Every stage's roll-up from computed figures and the stage series. */
+export function rollups(figures: Figures, series: Map<string, LoadPoint[]>): StageRollup[] {
+  return rollupStages(figures).map((stage) =>
+    stageRollup(
+      stage,
+      figures.assets.filter((a) => a.stageId === stage.id),
+      series.get(stage.id) ?? [],
+      figures.asOf,
+    ),
+  );
+}
+
+export async function programReadiness(deps: Deps, user: SessionUser, programId: string, asOf = new Date()): Promise<ProgramReadiness> {
+  assertMember(user, programId, 'This program');
+  const figures = await computeFigures(deps, { programId }, asOf);
+  const series = await stageSeries(deps, { programId }, asOf, TREND_WINDOW_DAYS);
+  return { programId, asOf: asOf.toISOString(), stages: rollups(figures, series) };
+}
+
+/** One stage's roll-up, each asset's figure with it (a gate review freezes both). */
+export async function stageFigures(deps: Deps, stage: { id: string; programId: string }, asOf: Date, transaction?: Transaction) {
+  const figures = await computeFigures(deps, { programId: stage.programId, stageId: stage.id }, asOf, transaction);
+  const info = figures.stages.find((s) => s.id === stage.id)!;
+  const series = await stageSeries(deps, { programId: stage.programId, stageId: stage.id }, asOf, TREND_SERIES_DAYS, transaction);
+  return { info, assets: figures.assets, series: series.get(stage.id) ?? [], rollup: stageRollup(info, figures.assets, series.get(stage.id) ?? [], asOf) };
+}
+
+// ---- Trend and target date ------------------------------------------------------------------
+
+/** The stage when the user belongs to its program; otherwise 404. */
+export async function visibleStage(user: SessionUser, id: string, transaction?: Transaction) {
+  const stage = await Stage.findByPk(id, { attributes: ['id', 'programId', 'name'], transaction });
+  if (!stage || !user.programIds.includes(stage.programId)) throw notFound('This stage');
+  return stage;
+}
+
+export async function stageTrend(deps: Deps, user: SessionUser, stageId: string, asOf = new Date()): Promise<StageTrend> {
+  const stage = await visibleStage(user, stageId);
+  const { info, series, rollup } = await stageFigures(deps, stage, asOf);
+  const fit = fitLoadTrend(series, asOf);
+  return {
+    stageId: info.id,
+    programId: stage.programId,
+    name: info.name,
+    gate: info.gate,
+    targetDate: info.targetDate,
+    series: series.map((p) => ({ date: p.date, meanScore: p.meanScore, load: p.load, assetCount: p.assetCount, counts: p.counts })),
+    fit: fit && {
+      slopePerDay: fit.slope,
+      intercept: fit.intercept,
+      fromDate: fit.fromDate,
+      toDate: fit.toDate,
+      line: [
+        { date: fit.fromDate, load: fit.intercept },
+        { date: fit.toDate, load: fit.intercept + fit.slope * (TREND_WINDOW_DAYS - 1) },
+      ],
+    },
+    forecast: rollup.forecast,
+    meetsTarget: rollup.meetsTarget,
+  };
+}
+
+/** Sets (or with null clears) the day a lead wants the stage through its gate; answers with the forecast against it. */
+export async function setTargetDate(deps: Deps, user: SessionUser, stageId: string, input: SetTargetDate, asOf = new Date()): Promise<TargetDateResult> {
+  const stage = await visibleStage(user, stageId);
+  if (input.date && isPastDueDate(input.date, asOf)) {
+    throw new AppError(400, 'request/invalid', 'date: Choose today or a later day.', { fields: { date: 'Choose today or a later day.' } });
+  }
+  await deps.sequelize.transaction(async (transaction) => {
+    const [before] = await deps.sequelize.query<{ target_date: string }>(
+      `SELECT target_date::text AS target_date FROM gate_target_dates WHERE stage_id = $1 FOR UPDATE`,
+      { bind: [stage.id], type: QueryTypes.SELECT, transaction },
+    );
+    const from = before?.target_date ?? null;
+    const to = input.date ?? null;
+    if (from === to) return;
+    if (to === null) {
+      await deps.sequelize.query(`DELETE FROM gate_target_dates WHERE stage_id = $1`, { bind: [stage.id], transaction });
+    } else {
+      await deps.sequelize.query(
+        `INSERT INTO gate_target_dates (stage_id, program_id, target_date, set_by) VALUES ($1, $2, $3, $4)
+         ON CONFLICT (stage_id) DO UPDATE SET target_date = $3, set_by = $4, version = gate_target_dates.version + 1, updated_at = now()`,
+        { bind: [stage.id, stage.programId, to, user.id], transaction },
+      );
+    }
+    await recordHistory(
+      {
+        programId: stage.programId,
+        entityType: 'stage',
+        entityId: stage.id,
+        action: 'gate-target-date-set',
+        actorId: user.id,
+        before: { gateTargetDate: from },
+        after: { gateTargetDate: to },
+      },
+      transaction,
+    );
+  });
+  const { rollup } = await stageFigures(deps, stage, asOf);
+  return { stageId: stage.id, targetDate: rollup.targetDate, forecast: rollup.forecast, meetsTarget: rollup.meetsTarget };
+}

@@ -1,0 +1,326 @@
+import type { GateSettings } from '../schemas/assets';
+import type { FindingSeverity, FindingStatus } from '../schemas/finding-enums';
+import type { ConformanceStatus } from '../schemas/software';
+import type { AllocationStatus } from '../schemas/validation';
+import type {
+  Blocker,
+  BlockerItem,
+  BreakdownEntry,
+  BreakdownItem,
+  ReadinessPart,
+  ReadinessResult,
+  ResultCounts,
+} from '../schemas/readiness';
+import { isClosedStatus, isOverdue } from './finding-workflow';
+
+/**
+ * The readiness score of one asset for the gate at the end of its stage (PRODUCT.md section 4).
+ *
+ * - Checklist C = required items passed or not applicable / required items; 1 when the stage's
+ *   checklist has no required item (nothing is missing).
+ * - Findings F = max(0, 1 - load / budget). Load = sum over open findings (not verified, not
+ *   rejected) of the severity weight: blocking 10, major 3, minor 1, doubled when past due.
+ *   PRODUCT.md names no weight for `safety`: it counts 10 like blocking (a safety problem is at
+ *   least a blocking one, and its weight shows in the breakdown), and besides that it makes the
+ *   asset not cleared (the product's own choice).
+ * - Software S = ECUs counted as on the baseline / ECUs in the released baseline of the stage
+ *   (narrowed to the ECUs the asset carries); 1 when the stage has no released baseline. An ECU
+ *   ahead counts as on only when no compatibility rule involving it is broken (shared/domain/software).
+ * - Validation V = allocated tests passed / allocated tests; 1 when none are allocated.
+ *
+ * Score = 100 x (wC C + wF F + wS S + wV V), rounded to hundredths (the weights add up to 1: the
+ * stages service refuses other weights). The result compares the rounded score, so a score shown
+ * as 90.00 is never a conditional go: go at goThreshold or more, conditional from
+ * conditionalThreshold, no-go below; any open safety finding makes it no-go whatever the score.
+ */
+
+export const SEVERITY_LOAD: Record<FindingSeverity, number> = { safety: 10, blocking: 10, major: 3, minor: 1 };
+export const PAST_DUE_FACTOR = 2;
+
+export type ReadinessFinding = { id: string; title: string; severity: FindingSeverity; status: FindingStatus; dueDate: string | null };
+export type OffBaselineEcu = { ecuId: string; code: string; status: ConformanceStatus | null };
+export type NotPassedTest = { testId: string; name: string; status: Exclude<AllocationStatus, 'passed'> };
+
+export type ReadinessInput = {
+  checklist: { requiredTotal: number; requiredPassedOrNa: number; openRequired: ReadonlyArray<{ id: string; title: string }> };
+  findings: readonly ReadinessFinding[];
+  software: { inBaseline: number; onBaseline: number; offBaseline: readonly OffBaselineEcu[] };
+  validation: { allocated: number; passed: number; notPassed: readonly NotPassedTest[] };
+  gate: GateSettings;
+  asOf: Date;
+};
+
+export type Parts = Record<ReadinessPart, number>;
+
+export type ReadinessOutput = {
+  score: number;
+  result: ReadinessResult;
+  cleared: boolean;
+  parts: Parts;
+  weights: Parts;
+  breakdown: BreakdownEntry[];
+  thresholds: { go: number; conditional: number };
+  findingsLoad: number;
+  findingsBudget: number;
+  notClearedBy: Array<{ id: string; title: string }>;
+};
+
+const PART_ORDER: readonly ReadinessPart[] = ['checklist', 'findings', 'software', 'validation'];
+
+/** Hundredths, with the float noise of a sum of products (89.99999999999999) taken out first. */
+export const roundScore = (x: number) => Math.round(Math.round(x * 1e6) / 1e4) / 100;
+const round2 = (x: number) => Math.round(x * 100) / 100;
+const ratio = (num: number, den: number) => (den > 0 ? Math.min(1, Math.max(0, num / den)) : 1);
+
+const WORDS = ['no', 'one', 'two', 'three', 'four', 'five', 'six', 'seven', 'eight', 'nine', 'ten'];
+/** "four open blocking findings", "one ECU": numbers up to ten in words, larger ones in digits. */
+export const countWords = (n: number) => (n >= 0 && n < WORDS.length ? WORDS[n] : String(n));
+const plural = (n: number, one: string, many = `${one}s`) => (n === 1 ? one : many);
+/** "-12", "-0.4": whole points from one up, one decimal below. */
+export const pointsText = (points: number) => {
+  const abs = Math.abs(points);
+  const shown = abs >= 1 ? String(Math.round(abs)) : String(Math.round(abs * 10) / 10);
+  return `-${shown}`;
+};
+
+export function resultFor(score: number, cleared: boolean, gate: Pick<GateSettings, 'goThreshold' | 'conditionalThreshold'>): ReadinessResult {
+  if (!cleared) return 'no-go';
+  if (score >= gate.goThreshold) return 'go';
+  if (score >= gate.conditionalThreshold) return 'conditional';
+  return 'no-go';
+}
+
+/** The load weight of one open finding at `asOf`; 0 for a closed one. */
+export function findingLoad(f: Pick<ReadinessFinding, 'severity' | 'status' | 'dueDate'>, asOf: Date): number {
+  if (isClosedStatus(f.status)) return 0;
+  return SEVERITY_LOAD[f.severity] * (isOverdue(f, asOf) ? PAST_DUE_FACTOR : 1);
+}
+
+/**
+ * Splits `total` hundredths over `weights` by the largest remainder, so the rounded shares add up
+ * to the rounded total exactly.
+ */
+function apportion(total: number, weights: number[]): number[] {
+  const sum = weights.reduce((a, b) => a + b, 0);
+  if (sum <= 0 || total <= 0) return weights.map(() => 0);
+  const exact = weights.map((w) => (total * w) / sum);
+  const floors = exact.map(Math.floor);
+  let left = total - floors.reduce((a, b) => a + b, 0);
+  const order = exact.map((e, i) => [e - floors[i], i] as const).sort((a, b) => b[0] - a[0] || a[1] - b[1]);
+  for (const [, i] of order) {
+    if (left <= 0) break;
+    floors[i] += 1;
+    left -= 1;
+  }
+  return floors;
+}
+
+const ECU_STATUS_WORDS: Record<ConformanceStatus, string> = {
+  'on-baseline': 'on the baseline',
+  behind: 'behind the baseline',
+  ahead: 'ahead of the baseline with a compatibility rule broken',
+  missing: 'nothing recorded',
+  'not-comparable': 'version not comparable with the baseline',
+  'rule-broken': 'breaks a compatibility rule',
+};
+const TEST_STATUS_WORDS: Record<NotPassedTest['status'], string> = { planned: 'planned', running: 'running', failed: 'failed' };
+
+function findingsText(open: Array<{ severity: FindingSeverity; pastDue: boolean }>): string {
+  const order: FindingSeverity[] = ['safety', 'blocking', 'major', 'minor'];
+  const bySeverity = order.map((s) => [s, open.filter((f) => f.severity === s).length] as const).filter(([, n]) => n > 0);
+  const late = open.filter((f) => f.pastDue).length;
+  const lateText = late ? ` (${countWords(late)} past due)` : '';
+  if (bySeverity.length === 1) {
+    const [severity, n] = bySeverity[0];
+    return `${countWords(n)} open ${severity} ${plural(n, 'finding')}${lateText}`;
+  }
+  const list = bySeverity.map(([s, n]) => `${countWords(n)} ${s}`).join(', ');
+  return `${countWords(open.length)} open findings: ${list}${late ? `; ${countWords(late)} past due` : ''}`;
+}
+
+export function computeReadiness(input: ReadinessInput): ReadinessOutput {
+  const { gate, asOf } = input;
+  const weights: Parts = { ...gate.weights };
+  const budget = gate.findingsBudget;
+
+  const openFindings = input.findings
+    .filter((f) => !isClosedStatus(f.status))
+    .map((f) => ({ ...f, pastDue: isOverdue(f, asOf), load: findingLoad(f, asOf) }))
+    .sort((a, b) => b.load - a.load || a.title.localeCompare(b.title) || a.id.localeCompare(b.id));
+  const load = openFindings.reduce((sum, f) => sum + f.load, 0);
+  const notClearedBy = openFindings.filter((f) => f.severity === 'safety').map((f) => ({ id: f.id, title: f.title }));
+  const cleared = notClearedBy.length === 0;
+
+  const parts: Parts = {
+    checklist: ratio(input.checklist.requiredPassedOrNa, input.checklist.requiredTotal),
+    findings: Math.max(0, 1 - load / budget),
+    software: ratio(input.software.onBaseline, input.software.inBaseline),
+    validation: ratio(input.validation.passed, input.validation.allocated),
+  };
+  const score = roundScore(100 * PART_ORDER.reduce((sum, p) => sum + weights[p] * parts[p], 0));
+  const result = resultFor(score, cleared, gate);
+
+  // What each part took, in hundredths, apportioned so the entries add up to 100 - score exactly.
+  const lost = PART_ORDER.map((p) => 100 * weights[p] * (1 - parts[p]));
+  const hundredths = apportion(Math.round((100 - score) * 100), lost);
+  const breakdown: BreakdownEntry[] = [];
+  PART_ORDER.forEach((part, i) => {
+    if (hundredths[i] <= 0) return;
+    const points = -hundredths[i] / 100;
+    let items: BreakdownItem[];
+    let what: string;
+    if (part === 'checklist') {
+      const open = input.checklist.openRequired;
+      const share = apportion(hundredths[i], open.map(() => 1));
+      items = open.map((item, k) => ({ kind: 'checklist-item', id: item.id, label: item.title, points: -share[k] / 100 }));
+      const n = input.checklist.requiredTotal - input.checklist.requiredPassedOrNa;
+      what = `${countWords(n)} required checklist ${plural(n, 'item')} not passed`;
+    } else if (part === 'findings') {
+      const share = apportion(hundredths[i], openFindings.map((f) => f.load));
+      items = openFindings.map((f, k) => ({
+        kind: 'finding',
+        id: f.id,
+        label: `${f.title} (${f.severity}${f.pastDue ? ', past due' : ''})`,
+        points: -share[k] / 100,
+      }));
+      what = findingsText(openFindings);
+    } else if (part === 'software') {
+      const off = input.software.offBaseline;
+      const share = apportion(hundredths[i], off.map(() => 1));
+      items = off.map((e, k) => ({ kind: 'ecu', id: e.ecuId, label: `${e.code}: ${ECU_STATUS_WORDS[e.status ?? 'missing']}`, points: -share[k] / 100 }));
+      const n = input.software.inBaseline - input.software.onBaseline;
+      what = `${countWords(n)} ${plural(n, 'ECU')} off the baseline`;
+    } else {
+      const notPassed = input.validation.notPassed;
+      const share = apportion(hundredths[i], notPassed.map(() => 1));
+      items = notPassed.map((t, k) => ({ kind: 'validation-test', id: t.testId, label: `${t.name}: ${TEST_STATUS_WORDS[t.status]}`, points: -share[k] / 100 }));
+      const n = input.validation.allocated - input.validation.passed;
+      what = `${countWords(n)} allocated ${plural(n, 'test')} not passed`;
+    }
+    breakdown.push({ part, points, text: `${pointsText(points)}: ${what}`, items });
+  });
+
+  return {
+    score,
+    result,
+    cleared,
+    parts,
+    weights,
+    breakdown,
+    thresholds: { go: gate.goThreshold, conditional: gate.conditionalThreshold },
+    findingsLoad: load,
+    findingsBudget: budget,
+    notClearedBy,
+  };
+}
+
+// ---- The stage roll-up ----------------------------------------------------------------------
+
+export type AssetFigure = {
+  id: string;
+  tag: string;
+  readiness: ReadinessOutput;
+  input: Pick<ReadinessInput, 'checklist' | 'findings' | 'software' | 'validation'>;
+};
+
+/** How many items of each kind of blocker a roll-up lists (the counts cover them all). */
+export const BLOCKER_TOP_ITEMS = 10;
+
+export type StageFigures = {
+  assetCount: number;
+  meanScore: number | null;
+  meanParts: Parts | null;
+  lowest: { id: string; tag: string; score: number } | null;
+  counts: ResultCounts;
+  notCleared: number;
+  openFindingsLoad: number;
+  blockers: Blocker[];
+};
+
+/**
+ * The roll-up of a stage from its assets' figures: the mean score (of the rounded scores, to
+ * hundredths), the mean of each part, the lowest asset (ties by tag), the count per result, the
+ * total open-findings load, and what stops the gate: assets not cleared, open blocking findings,
+ * required checklist items not passed, ECUs off the baseline and allocated tests not passed, each
+ * counted in full with the first BLOCKER_TOP_ITEMS listed (worst assets first).
+ */
+export function rollUpStage(assets: readonly AssetFigure[]): StageFigures {
+  const counts: ResultCounts = { go: 0, conditional: 0, noGo: 0 };
+  for (const a of assets) {
+    if (a.readiness.result === 'go') counts.go += 1;
+    else if (a.readiness.result === 'conditional') counts.conditional += 1;
+    else counts.noGo += 1;
+  }
+  const n = assets.length;
+  const byScore = [...assets].sort((a, b) => a.readiness.score - b.readiness.score || a.tag.localeCompare(b.tag) || a.id.localeCompare(b.id));
+  const mean = (f: (a: AssetFigure) => number) => assets.reduce((s, a) => s + f(a), 0) / n;
+  const openFindingsLoad = assets.reduce((s, a) => s + a.readiness.findingsLoad, 0);
+
+  const blockers: Blocker[] = [];
+  const add = (kind: Blocker['kind'], rows: Array<{ asset: AssetFigure; item: Omit<BlockerItem, 'assetId' | 'assetTag'> }>, text: (count: number, assetCount: number) => string) => {
+    if (!rows.length) return;
+    const assetCount = new Set(rows.map((r) => r.asset.id)).size;
+    blockers.push({
+      kind,
+      count: kind === 'not-cleared' ? assetCount : rows.length,
+      assets: assetCount,
+      text: text(kind === 'not-cleared' ? assetCount : rows.length, assetCount),
+      items: rows.slice(0, BLOCKER_TOP_ITEMS).map((r) => ({ ...r.item, assetId: r.asset.id, assetTag: r.asset.tag })),
+    });
+  };
+  const on = (k: number) => `on ${countWords(k)} ${plural(k, 'asset')}`;
+  add(
+    'not-cleared',
+    byScore.flatMap((asset) => asset.readiness.notClearedBy.map((f) => ({ asset, item: { kind: 'finding' as const, id: f.id, label: f.title } }))),
+    (c) => `${countWords(c)} ${plural(c, 'asset')} not cleared (open safety ${plural(c, 'finding')})`,
+  );
+  add(
+    'blocking-findings',
+    byScore.flatMap((asset) =>
+      asset.input.findings
+        .filter((f) => f.severity === 'blocking' && !isClosedStatus(f.status))
+        .map((f) => ({ asset, item: { kind: 'finding' as const, id: f.id, label: f.title } })),
+    ),
+    (c, k) => `${countWords(c)} open blocking ${plural(c, 'finding')} ${on(k)}`,
+  );
+  add(
+    'required-items',
+    byScore.flatMap((asset) => asset.input.checklist.openRequired.map((i) => ({ asset, item: { kind: 'checklist-item' as const, id: i.id, label: i.title } }))),
+    (c, k) => `${countWords(c)} required checklist ${plural(c, 'item')} not passed ${on(k)}`,
+  );
+  add(
+    'ecus-off-baseline',
+    byScore.flatMap((asset) =>
+      asset.input.software.offBaseline.map((e) => ({
+        asset,
+        item: { kind: 'ecu' as const, id: e.ecuId, label: `${e.code}: ${ECU_STATUS_WORDS[e.status ?? 'missing']}` },
+      })),
+    ),
+    (c, k) => `${countWords(c)} ${plural(c, 'ECU')} off the baseline ${on(k)}`,
+  );
+  add(
+    'tests-not-passed',
+    byScore.flatMap((asset) =>
+      asset.input.validation.notPassed.map((t) => ({ asset, item: { kind: 'validation-test' as const, id: t.testId, label: `${t.name}: ${TEST_STATUS_WORDS[t.status]}` } })),
+    ),
+    (c, k) => `${countWords(c)} allocated ${plural(c, 'test')} not passed ${on(k)}`,
+  );
+
+  return {
+    assetCount: n,
+    meanScore: n ? round2(mean((a) => a.readiness.score)) : null,
+    meanParts: n
+      ? {
+          checklist: mean((a) => a.readiness.parts.checklist),
+          findings: mean((a) => a.readiness.parts.findings),
+          software: mean((a) => a.readiness.parts.software),
+          validation: mean((a) => a.readiness.parts.validation),
+        }
+      : null,
+    lowest: byScore[0] ? { id: byScore[0].id, tag: byScore[0].tag, score: byScore[0].readiness.score } : null,
+    counts,
+    notCleared: assets.filter((a) => !a.readiness.cleared).length,
+    openFindingsLoad,
+    blockers,
+  };
+}
