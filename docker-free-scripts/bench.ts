@@ -70,8 +70,10 @@ async function serveStatic(dir: string): Promise<string> {
   return `http://127.0.0.1:${port}`;
 }
 
-async function part<T>(results: Results, name: string, work: () => Promise<T>): Promise<T | undefined> {
+/** Runs one part of the bench; a failure is reported in the table and the other parts still run. */
+async function part<T>(results: Results, [short, name]: [string, string], work: () => Promise<T>): Promise<T | undefined> {
   const started = Date.now();
+  results.loadAverage[short] = os.loadavg()[0];
   log(`${name}...`);
   try {
     const value = await work();
@@ -92,6 +94,7 @@ async function main() {
     seconds: 0,
     quick: QUICK,
     machine: { cpus: os.cpus().length, loadAverageAtStart: os.loadavg(), node: process.versions.node, postgres: postgresVersion() },
+    loadAverage: {},
     notes: [],
     failures: [],
   };
@@ -125,7 +128,7 @@ async function main() {
   // 1. Scale data.
   const sequelize: Sequelize = createSequelize(databaseUrl);
   initModels(sequelize);
-  const scale = await part(results, 'migrate and generate the scale data', async () => {
+  const scale = await part(results, ['scale data', 'migrate and generate the scale data'], async () => {
     await migrateUp(sequelize);
     return generateScaleData(sequelize, { bcryptRounds: config.bcryptRounds });
   });
@@ -135,7 +138,7 @@ async function main() {
   log(`scale data: ${Object.entries(scale.counts).map(([k, v]) => `${k} ${v}`).join(', ')}`);
 
   // 2. Web: the project's export (reused when dist/ is current) copied aside, and an empty app.
-  await part(results, 'web first-load JavaScript (project and empty Expo Router app)', async () => {
+  await part(results, ['web', 'web first-load JavaScript (project and empty Expo Router app)'], async () => {
     buildWeb();
     fs.cpSync(path.join(ROOT, 'dist'), webDist, { recursive: true });
     const app = firstLoadJs(webDist);
@@ -156,7 +159,7 @@ async function main() {
   const targetOf = (p: typeof scale.big) => ({ programId: p.id, assetId: p.sampleAssetId, stageId: p.stageIds[1] ?? p.stageIds[0] });
 
   // 4. API against bare SQL, and statements per request.
-  await part(results, 'API endpoints against bare SQL', async () => {
+  await part(results, ['API', 'API endpoints against bare SQL'], async () => {
     const deps = {
       config,
       sequelize,
@@ -176,12 +179,12 @@ async function main() {
     }
   });
   results.notes.push(
-    `API: statements captured by wrapping pg's Client#query in an app built with createApp on the same database (the fewest of three requests, so a pool connection's set-up is not counted); endpoint time over HTTP (keep-alive) against the started server, bare time replaying the same statements with the same binds on one pg connection; medians of ${QUICK ? 10 : 30} runs after 3 warm-ups, signed in as the lead.`,
+    `API: statements captured by wrapping pg's Client#query in an app built with createApp on the same database (the fewest of three requests, so a pool connection's set-up is not counted); endpoint time over HTTP (keep-alive) against the started server, bare time replaying the same statements with the same binds on one pg connection, one after the other; the two are timed in turns (endpoint, then bare) after 3 unmeasured pairs, medians of up to ${QUICK ? 10 : 30} pairs (fewer when an endpoint's pairs pass 90 s), signed in as the lead.`,
   );
 
   // 3. Lighthouse on the signed-in asset list, and on the empty app for this machine's floor.
   const lhRuns = QUICK ? 1 : 3;
-  await part(results, 'Lighthouse (asset list, then the empty app)', async () => {
+  await part(results, ['Lighthouse', 'Lighthouse (asset list, then the empty app)'], async () => {
     results.lighthouse = {};
     results.lighthouse.app = await runLighthouse({
       origin: base,
@@ -190,18 +193,27 @@ async function main() {
       signedInRequest: /\/api\/assets\?/,
       runs: lhRuns,
       tmpDir: tmpRoot!,
+      reportFile: path.join(ROOT, 'bench-results', 'lighthouse-asset-list.html'),
     });
     if (results.web) {
       const emptyOrigin = await serveStatic(path.join(tmpRoot!, 'empty-app', 'dist'));
-      results.lighthouse.empty = await runLighthouse({ origin: emptyOrigin, route: '/', storage: {}, signedInRequest: /./, runs: lhRuns, tmpDir: tmpRoot! });
+      results.lighthouse.empty = await runLighthouse({
+        origin: emptyOrigin,
+        route: '/',
+        storage: {},
+        signedInRequest: /./,
+        runs: lhRuns,
+        tmpDir: tmpRoot!,
+        reportFile: path.join(ROOT, 'bench-results', 'lighthouse-empty-app.html'),
+      });
     }
   });
   results.notes.push(
-    `Lighthouse ${results.lighthouse?.app?.lighthouse ?? ''}: mobile preset with its simulated throttling, performance only, the median of ${lhRuns} run${lhRuns === 1 ? '' : 's'} (Lighthouse's own median-run choice); Debian's Chromium with ${['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '...'].join(' ')}; signed in as the technician with the 5,000-asset program chosen, by writing the token into localStorage over CDP (playwright-core) before Lighthouse loads the page with a cleared HTTP cache.`,
+    `Lighthouse ${results.lighthouse?.app?.lighthouse ?? ''}: mobile preset with its simulated throttling, performance only, the median of ${lhRuns} run${lhRuns === 1 ? '' : 's'} (Lighthouse's own median-run choice); Debian's Chromium with ${['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '...'].join(' ')}; signed in as the technician with the 5,000-asset program chosen, by writing the token into localStorage over CDP (playwright-core) before Lighthouse loads the page with a cleared HTTP cache. The median runs' reports: bench-results/lighthouse-asset-list.html and lighthouse-empty-app.html.`,
   );
 
   // 5. Load (after the measurements above: it writes).
-  await part(results, `load (50 connections, ${loadSeconds()} s)`, async () => {
+  await part(results, ['load', `load (50 connections, ${loadSeconds()} s)`], async () => {
     const assets = await sequelize.query<{ id: string; version: number }>(
       `SELECT id, version FROM assets WHERE program_id = $1 ORDER BY md5(id::text) LIMIT 1000`,
       { bind: [scale.big.id], type: QueryTypes.SELECT },
@@ -215,11 +227,11 @@ async function main() {
   if (results.load) results.notes.push(`Load: autocannon against the started server on loopback, signed in as the technician, ${results.load.mix}; the PATCH sends the version last seen for that asset, so a 409 is the product refusing a stale write. Status counts: ${JSON.stringify(results.load.statusCounts)}.`);
 
   // 6. Photos.
-  await part(results, 'photo bytes', async () => {
+  await part(results, ['photos', 'photo bytes'], async () => {
     results.photo = await measurePhoto();
   });
   results.notes.push(
-    'Photos: a 4000x3000 JPEG made with sharp (gradients plus per-pixel noise, quality 92), then the client\'s resize replayed server-side with sharp: long side PHOTO_CLIENT_LONG_SIDE, JPEG quality PHOTO_JPEG_QUALITY read from components/photos/prepare-photo.ts (the phone or browser does it with expo-image-manipulator; sharp stands in for it here).',
+    'Photos: a 4000x3000 JPEG made with sharp (gradients with noise at three scales, quality 92), then the client\'s resize replayed server-side with sharp: long side PHOTO_CLIENT_LONG_SIDE, JPEG quality PHOTO_JPEG_QUALITY read from components/photos/prepare-photo.ts (the phone or browser does it with expo-image-manipulator; sharp stands in for it here).',
   );
 
   await sequelize.close();

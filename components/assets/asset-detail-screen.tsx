@@ -175,6 +175,7 @@ function AssetDetail({ asset }: { asset: AssetDetail }) {
       {notice ? <Notice tone="success" message={notice} testID="asset-notice" /> : null}
       <AssetFindingsCard assetId={asset.id} programId={asset.programId} />
       <TextLink href={`/assets/${asset.id}/campaigns`} label="Test campaigns" testID="asset-campaigns-link" />
+      <TextLink href={`/assets/${asset.id}/software`} label="Software" testID="asset-software-link" />
       {isWide ? (
         <View style={styles.columns}>
           <View style={styles.column}>

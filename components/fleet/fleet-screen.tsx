@@ -2,23 +2,22 @@ import { useRouter } from 'expo-router';
 import { useEffect, useMemo, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { Button } from '@/components/ui/button';
-import { Card } from '@/components/ui/card';
 import { Select, type SelectOption } from '@/components/ui/select';
 import { Screen } from '@/components/ui/screen';
 import { ErrorState, LoadingState, Notice } from '@/components/ui/states';
-import { Heading, Text } from '@/components/ui/text';
+import { Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
-import { sizes, spacing } from '@/components/theme/tokens';
+import { TextLink } from '@/components/ui/text-link';
+import { colors, radii, sizes, spacing } from '@/components/theme/tokens';
 import { useAssetListQuery } from '@/hooks/queries/assets';
 import { useAssignmentsQuery, useDriversQuery } from '@/hooks/queries/fleet';
 import { useStagesQuery } from '@/hooks/queries/stages';
 import { useBreakpoints } from '@/hooks/use-breakpoints';
 import { useSession } from '@/hooks/use-session';
 import { ASSIGNMENT_PURPOSES, ASSIGNMENT_PURPOSE_LABELS, type AssignmentPurpose } from '@/shared/schemas/fleet';
-import { AssignmentCard } from './assignment-card';
 import { FleetDayList } from './fleet-day-list';
 import { FleetHeader } from './fleet-header';
-import { addDays, dayKey, formatDay, parseDay, startOfDay } from './fleet-time';
+import { addDays, dayKey, formatDay, formatDayTime, parseDay, startOfDay } from './fleet-time';
 import { FleetTimeline, type TimelineRow } from './fleet-timeline';
 import { conflictingIds, fleetErrorMessage, isFleetManager } from './fleet-words';
 import { MyDrivesScreen } from './my-drives-screen';
@@ -137,26 +136,28 @@ function FleetPlan({ params }: { params: FleetParams }) {
       />
 
       {overdueItems.length ? (
-        <Card testID="fleet-overdue">
-          <Heading level={2} variant="heading" tone="danger">
-            {overdueItems.length === 1 ? '1 vehicle not back on time' : `${overdueItems.length} vehicles not back on time`}
-          </Heading>
-          <Text tone="muted">Checked out and past the end of the window without a check-in.</Text>
-          <View style={styles.cards}>
-            {overdueItems.map((a) => (
-              <AssignmentCard key={a.id} assignment={a} />
-            ))}
-          </View>
-        </Card>
+        <View style={styles.overdue} accessibilityRole="alert" testID="fleet-overdue">
+          <Text variant="bodyStrong" tone="danger">
+            {overdueItems.length === 1 ? '1 vehicle not back on time' : `${overdueItems.length} vehicles not back on time`} (checked out, past the end of the window)
+          </Text>
+          {overdueItems.map((a) => (
+            <TextLink
+              key={a.id}
+              href={`/fleet/assignments/${a.id}`}
+              label={`${a.assetTag} · ${a.driver.name} · due back ${formatDayTime(a.endsAt)}`}
+              testID={`fleet-overdue-${a.id}`}
+            />
+          ))}
+        </View>
       ) : null}
 
-      <View style={styles.period}>
-        <View style={styles.periodButtons}>
-          <Button label={`Previous ${days === 7 ? 'week' : '2 weeks'}`} icon="back" variant="secondary" compact onPress={() => move(-days)} testID="fleet-prev" />
-          <Button label="This week" variant="ghost" compact onPress={() => set({ start: undefined, day: undefined })} testID="fleet-this-week" />
-          <Button label={`Next ${days === 7 ? 'week' : '2 weeks'}`} icon="chevron-right" variant="secondary" compact onPress={() => move(days)} testID="fleet-next" />
-        </View>
-        <View style={styles.periodRow}>
+      <View style={styles.toolbar}>
+        <Button label={isWide ? `Previous ${days === 7 ? 'week' : '2 weeks'}` : 'Earlier'} icon="back" variant="secondary" compact onPress={() => move(-days)} testID="fleet-prev" />
+        <Button label="This week" variant="ghost" compact onPress={() => set({ start: undefined, day: undefined })} testID="fleet-this-week" />
+        <Button label={isWide ? `Next ${days === 7 ? 'week' : '2 weeks'}` : 'Later'} icon="chevron-right" variant="secondary" compact onPress={() => move(days)} testID="fleet-next" />
+      </View>
+      {isWide ? (
+        <View style={styles.toolbar}>
           <View style={styles.startField}>
             <TextField
               label="From (year-month-day)"
@@ -170,39 +171,32 @@ function FleetPlan({ params }: { params: FleetParams }) {
               testID="fleet-start"
             />
           </View>
-          {isWide ? (
-            <Select
-              label="Show"
-              options={[
-                { value: '7', label: '1 week' },
-                { value: '14', label: '2 weeks' },
-              ]}
-              value={String(days)}
-              onChange={(v) => set({ days: v === '14' ? undefined : v })}
-              testID="fleet-days"
-            />
-          ) : null}
-        </View>
-      </View>
-
-      {isWide ? (
-        filters
-      ) : (
-        <>
-          <Button
-            label={filtersOpen ? 'Hide filters' : filterCount ? `Filters (${filterCount} on)` : 'Filters'}
-            icon={filtersOpen ? 'arrow-up' : 'chevron-down'}
-            variant="secondary"
-            compact
-            onPress={() => setFiltersOpen((open) => !open)}
-            testID="fleet-filters-toggle"
+          <Select
+            label="Show"
+            options={[
+              { value: '7', label: '1 week' },
+              { value: '14', label: '2 weeks' },
+            ]}
+            value={String(days)}
+            onChange={(v) => set({ days: v === '14' ? undefined : v })}
+            testID="fleet-days"
           />
-          {filtersOpen ? filters : null}
-        </>
-      )}
-      {filterCount ? (
-        <Button label="Clear filters" variant="ghost" compact onPress={() => set({ stage: undefined, purpose: undefined, driver: undefined })} testID="fleet-filters-clear" />
+        </View>
       ) : null}
+      <View style={styles.toolbar}>
+        <Button
+          label={filtersOpen ? 'Hide filters' : filterCount ? `Filters: stage, purpose, driver (${filterCount} on)` : 'Filters: stage, purpose, driver'}
+          icon={filtersOpen ? 'arrow-up' : 'chevron-down'}
+          variant="secondary"
+          compact
+          onPress={() => setFiltersOpen((open) => !open)}
+          testID="fleet-filters-toggle"
+        />
+        {filterCount ? (
+          <Button label="Clear filters" variant="ghost" compact onPress={() => set({ stage: undefined, purpose: undefined, driver: undefined })} testID="fleet-filters-clear" />
+        ) : null}
+      </View>
+      {filtersOpen ? filters : null}
 
       {!currentProgramId ? (
         <Notice message="Join a program to see its fleet." />
@@ -241,27 +235,23 @@ function summary(count: number, conflicts: number): string {
 }
 
 const styles = StyleSheet.create({
-  cards: {
-    gap: spacing.sm,
+  overdue: {
+    gap: spacing.xxs,
+    padding: spacing.md,
+    borderRadius: radii.md,
+    borderWidth: 1,
+    borderColor: colors.danger,
+    backgroundColor: colors.dangerTint,
   },
-  period: {
-    gap: spacing.sm,
-  },
-  periodButtons: {
+  toolbar: {
     flexDirection: 'row',
     flexWrap: 'wrap',
     gap: spacing.sm,
-  },
-  periodRow: {
-    flexDirection: 'row',
-    flexWrap: 'wrap',
-    gap: spacing.lg,
     alignItems: 'flex-start',
   },
   startField: {
-    minWidth: 220,
-    flexGrow: 1,
-    maxWidth: sizes.formMaxWidth,
+    width: 240,
+    maxWidth: '100%',
   },
   filters: {
     gap: spacing.md,

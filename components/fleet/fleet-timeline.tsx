@@ -15,7 +15,7 @@ const HEADER_H = 48;
 const LANE_H = 68;
 const ROW_PAD = 4;
 /** A bar is drawn at least this wide so its words stay readable; lanes are packed by drawn width. */
-const MIN_BAR_W = 84;
+const MIN_BAR_W = 96;
 
 type Placed = { a: Assignment; left: number; width: number; lane: number };
 
@@ -280,7 +280,7 @@ const styles = StyleSheet.create({
   },
   nowLine: {
     position: 'absolute',
-    top: 0,
+    top: HEADER_H,
     bottom: 0,
     width: 2,
     backgroundColor: colors.accent,

@@ -1,6 +1,6 @@
 import { usePathname } from 'expo-router';
-import type { ReactNode } from 'react';
-import { StyleSheet, View } from 'react-native';
+import { useEffect, useState, type ReactNode } from 'react';
+import { Pressable, StyleSheet, View } from 'react-native';
 import { useSafeAreaInsets } from 'react-native-safe-area-context';
 import { Button } from '@/components/ui/button';
 import { Badge } from '@/components/ui/chip';
@@ -129,14 +129,56 @@ function CurrentProgramLink({ code, name }: { code: string; name: string }) {
   );
 }
 
+/** A phone fits five tabs: with more, the first four stay and the rest move under "More". */
+const MAX_TABS = 5;
+
 export function TabBar({ items, pathname }: { items: readonly NavItem[]; pathname: string }) {
   const insets = useSafeAreaInsets();
+  const [moreOpen, setMoreOpen] = useState(false);
+  const overflow = items.length > MAX_TABS;
+  const shown = overflow ? items.slice(0, MAX_TABS - 1) : items;
+  const rest = overflow ? items.slice(MAX_TABS - 1) : [];
+  const restActive = rest.some((item) => isActiveHref(item.href, pathname));
+  useEffect(() => setMoreOpen(false), [pathname]);
   return (
-    <View style={[styles.tabBar, { paddingBottom: insets.bottom }]} role="navigation" aria-label="Main" testID="shell-phone">
-      {items.map((item) => (
-        <TabLink key={item.href} item={item} active={isActiveHref(item.href, pathname)} />
-      ))}
+    <View role="navigation" aria-label="Main" testID="shell-phone">
+      {moreOpen ? (
+        <View style={styles.moreSheet} testID="nav-more-sheet">
+          {rest.map((item) => (
+            <SideNavLink key={item.href} item={item} active={isActiveHref(item.href, pathname)} />
+          ))}
+        </View>
+      ) : null}
+      <View style={[styles.tabBar, { paddingBottom: insets.bottom }]}>
+        {shown.map((item) => (
+          <TabLink key={item.href} item={item} active={isActiveHref(item.href, pathname)} />
+        ))}
+        {overflow ? <MoreTab active={restActive || moreOpen} expanded={moreOpen} onPress={() => setMoreOpen((open) => !open)} /> : null}
+      </View>
     </View>
+  );
+}
+
+function MoreTab({ active, expanded, onPress }: { active: boolean; expanded: boolean; onPress: () => void }) {
+  const ring = useFocusRing();
+  return (
+    <Pressable
+      onPress={onPress}
+      testID="nav-more"
+      accessibilityRole="button"
+      accessibilityLabel="More"
+      accessibilityState={{ expanded }}
+      onFocus={ring.onFocus}
+      onBlur={ring.onBlur}
+      style={({ pressed }) => [styles.tab, pressed && styles.tabPressed, ring.focused && styles.focused]}
+    >
+      <View style={[styles.tabIcon, active && styles.tabIconActive]}>
+        <Icon name={expanded ? 'arrow-up' : 'chevron-down'} color={active ? colors.primary : colors.textMuted} />
+      </View>
+      <Text variant="caption" weight={active ? 'semibold' : 'medium'} tone={active ? 'primary' : 'muted'} numberOfLines={1}>
+        More
+      </Text>
+    </Pressable>
   );
 }
 
@@ -242,6 +284,14 @@ const styles = StyleSheet.create({
     gap: spacing.xs,
     paddingHorizontal: spacing.xs,
     borderRadius: radii.md,
+  },
+  moreSheet: {
+    backgroundColor: colors.surface,
+    borderTopWidth: 1,
+    borderTopColor: colors.border,
+    paddingHorizontal: spacing.lg,
+    paddingVertical: spacing.sm,
+    gap: spacing.xs,
   },
   tabBar: {
     flexDirection: 'row',

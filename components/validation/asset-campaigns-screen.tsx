@@ -23,7 +23,7 @@ import {
 import { useSession } from '@/hooks/use-session';
 import type { Campaign, CampaignStep } from '@/shared/schemas/validation';
 import { CampaignForm } from './campaign-form';
-import { CampaignProgressSummary, stepConditions, stepPlan } from './campaign-summary';
+import { CampaignProgressSummary, hasStarted, stepConditions, stepPlan } from './campaign-summary';
 import { CAN_PICK_DOCUMENTS, pickFile, readFileText } from './pick-file';
 import { canValidation, formatAmount, readNumber, validationErrorMessage } from './validation-words';
 
@@ -36,7 +36,7 @@ export function AssetCampaignsScreen({ assetId, campaignId }: { assetId: string;
   const [notice, setNotice] = useState<string | null>(null);
   const canWork = canValidation.workCampaigns(user?.role);
   const tag = asset.data?.tag ?? 'this asset';
-  const list = [...(campaigns.data ?? [])].sort((a, b) => (a.id === campaignId ? -1 : b.id === campaignId ? 1 : Number(a.progress.complete) - Number(b.progress.complete)));
+  const list = [...(campaigns.data ?? [])].sort((a, b) => (a.id === campaignId ? -1 : b.id === campaignId ? 1 : campaignOrder(a) - campaignOrder(b)));
 
   return (
     <Screen testID="asset-campaigns">
@@ -89,6 +89,12 @@ export function AssetCampaignsScreen({ assetId, campaignId }: { assetId: string;
       )}
     </Screen>
   );
+}
+
+/** Running campaigns first, then those not started, then the finished ones. */
+function campaignOrder(campaign: Campaign): number {
+  if (campaign.progress.complete) return 2;
+  return hasStarted(campaign) ? 0 : 1;
 }
 
 function CampaignPanel({ campaign, canWork }: { campaign: Campaign; canWork: boolean }) {
@@ -184,7 +190,7 @@ function StepRow({ campaign, step, index, canWork }: { campaign: Campaign; step:
           {index + 1}. {step.name}
         </Text>
         <Text variant="caption" tone={current ? 'primary' : 'muted'} weight="medium">
-          {current ? 'Running now' : done >= planned && planned > 0 ? 'Done' : 'Planned'}
+          {current ? (hasStarted(campaign) ? 'Running now' : 'Next') : done >= planned && planned > 0 ? 'Done' : 'Planned'}
         </Text>
       </View>
       <Text variant="caption">

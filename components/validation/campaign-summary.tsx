@@ -20,7 +20,13 @@ export function progressCaption(campaign: Campaign): string {
 export function currentStepSentence(campaign: Campaign): string {
   if (campaign.progress.complete) return 'All steps done.';
   if (!campaign.currentStep) return 'No step planned.';
-  return `Now: ${campaign.currentStep.name} (step ${campaign.currentStep.index + 1} of ${campaign.steps.length})`;
+  const which = `${campaign.currentStep.name} (step ${campaign.currentStep.index + 1} of ${campaign.steps.length})`;
+  return hasStarted(campaign) ? `Now: ${which}` : `First: ${which}`;
+}
+
+/** Started once a start time is set or anything is recorded. */
+export function hasStarted(campaign: Campaign): boolean {
+  return Boolean(campaign.startedAt) || campaign.progress.done > 0;
 }
 
 export function finishSentence(campaign: Campaign): string {

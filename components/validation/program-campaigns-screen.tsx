@@ -11,7 +11,7 @@ import { useProgramCampaignsQuery } from '@/hooks/queries/validation';
 import { useBreakpoints } from '@/hooks/use-breakpoints';
 import { useSession } from '@/hooks/use-session';
 import type { Campaign } from '@/shared/schemas/validation';
-import { CampaignProgressSummary, currentStepSentence, finishSentence, progressCaption } from './campaign-summary';
+import { CampaignProgressSummary, currentStepSentence, finishSentence, hasStarted, progressCaption } from './campaign-summary';
 import { validationErrorMessage } from './validation-words';
 
 /** Every test campaign of the program: where each stands and when it should end. */
@@ -19,9 +19,7 @@ export function ProgramCampaignsScreen() {
   const { currentProgramId, currentProgram } = useSession();
   const { isWide } = useBreakpoints();
   const campaigns = useProgramCampaignsQuery(currentProgramId);
-  const list = [...(campaigns.data ?? [])].sort(
-    (a, b) => Number(a.progress.complete) - Number(b.progress.complete) || a.assetTag.localeCompare(b.assetTag) || a.name.localeCompare(b.name),
-  );
+  const list = [...(campaigns.data ?? [])].sort((a, b) => order(a) - order(b) || a.assetTag.localeCompare(b.assetTag) || a.name.localeCompare(b.name));
 
   return (
     <Screen testID="campaigns-screen">
@@ -52,6 +50,9 @@ export function ProgramCampaignsScreen() {
     </Screen>
   );
 }
+
+/** Running campaigns first, then those not started, then the finished ones. */
+const order = (campaign: Campaign) => (campaign.progress.complete ? 2 : hasStarted(campaign) ? 0 : 1);
 
 function CampaignCard({ campaign, wide }: { campaign: Campaign; wide: boolean }) {
   const ring = useFocusRing();

@@ -68,8 +68,10 @@ export async function runLighthouse(opts: {
   signedInRequest: RegExp;
   runs: number;
   tmpDir: string;
+  /** Where to keep the median run's HTML report. */
+  reportFile?: string;
 }): Promise<LighthouseFigure> {
-  const { default: lighthouse } = await import('lighthouse');
+  const { default: lighthouse, generateReport } = await import('lighthouse');
   const { computeMedianRun } = (await import('lighthouse/core/lib/median-run.js')) as unknown as {
     computeMedianRun: (runs: Lhr[]) => Lhr;
   };
@@ -110,12 +112,17 @@ export async function runLighthouse(opts: {
       cls: lhr.audits['cumulative-layout-shift']?.numericValue ?? NaN,
       fcpMs: lhr.audits['first-contentful-paint']?.numericValue ?? NaN,
       finalUrl: lhr.finalDisplayedUrl,
-      signedIn: requests.some((r) => opts.signedInRequest.test(r.url ?? '')),
+      // It stayed on the page asked for (not sent to sign-in) and asked the API for its data.
+      signedIn: new URL(lhr.finalDisplayedUrl).pathname === new URL(url).pathname && requests.some((r) => opts.signedInRequest.test(r.url ?? '')),
     };
   };
   const runs = lhrs.map(toRun);
   const medianLhr = lhrs.length > 1 ? computeMedianRun(lhrs) : lhrs[0];
   const chosen = toRun(medianLhr);
+  if (opts.reportFile) {
+    fs.mkdirSync(path.dirname(opts.reportFile), { recursive: true });
+    fs.writeFileSync(opts.reportFile, generateReport(medianLhr as unknown as Parameters<typeof generateReport>[0], 'html'));
+  }
   const versionLine = /Chrome\/([\d.]+)/.exec(medianLhr.environment?.hostUserAgent ?? '')?.[1] ?? 'unknown';
   return { ...chosen, runs, url, chromium: versionLine, lighthouse: medianLhr.lighthouseVersion };
 }

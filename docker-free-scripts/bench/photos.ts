@@ -2,8 +2,8 @@
 // (components/photos/prepare-photo.ts: long side PHOTO_CLIENT_LONG_SIDE, JPEG quality
 // PHOTO_JPEG_QUALITY, through expo-image-manipulator, on the web a canvas). That code needs a
 // browser or a phone, so the bench repeats the same resize with sharp in Node: same long side,
-// same quality (a canvas's 0.8 taken as libjpeg's 80). The test image is noise over gradients,
-// which compresses about as badly as a real photo.
+// same quality (a canvas's 0.8 taken as libjpeg's 80). The test image is gradients with noise at
+// several scales, which compresses about as a real photo does.
 import fs from 'node:fs';
 import path from 'node:path';
 import sharp from 'sharp';
@@ -25,20 +25,27 @@ function clientQuality(): number {
 }
 
 export async function makeTestPhoto(width = 4000, height = 3000): Promise<Buffer> {
-  // Smooth gradients (a scene) plus per-pixel noise (sensor grain and texture), as a camera JPEG at quality 92.
+  // Smooth gradients (a scene) with noise at three scales: per pixel (sensor grain), 4 px and
+  // 16 px blocks (texture that survives the downscale). Saved at JPEG quality 92 it comes to
+  // about 4 MB, like a 12 MP phone camera photo.
   const raw = Buffer.alloc(width * height * 3);
   let seed = 0x12345;
   const rand = () => {
     seed = (seed * 1103515245 + 12345) >>> 0;
-    return (seed >>> 16) & 0xff;
+    return ((seed >>> 16) & 0xff) - 128;
   };
+  const w4 = Math.ceil(width / 4);
+  const w16 = Math.ceil(width / 16);
+  const n4 = Int16Array.from({ length: w4 * Math.ceil(height / 4) }, rand);
+  const n16 = Int16Array.from({ length: w16 * Math.ceil(height / 16) }, rand);
+  const clamp = (v: number) => Math.max(0, Math.min(255, v));
   for (let y = 0; y < height; y += 1) {
     for (let x = 0; x < width; x += 1) {
       const i = (y * width + x) * 3;
-      const n = rand() - 128;
-      raw[i] = Math.max(0, Math.min(255, ((x * 255) / width) * 0.6 + 60 + n * 0.35));
-      raw[i + 1] = Math.max(0, Math.min(255, ((y * 255) / height) * 0.5 + 70 + n * 0.3));
-      raw[i + 2] = Math.max(0, Math.min(255, 128 + 60 * Math.sin((x + y) / 180) + n * 0.4));
+      const n = rand() * 0.08 + n4[(y >> 2) * w4 + (x >> 2)] * 0.15 + n16[(y >> 4) * w16 + (x >> 4)] * 0.15;
+      raw[i] = clamp(((x * 255) / width) * 0.6 + 60 + n);
+      raw[i + 1] = clamp(((y * 255) / height) * 0.5 + 70 + n * 0.9);
+      raw[i + 2] = clamp(128 + 60 * Math.sin((x + y) / 180) + n * 1.1);
     }
   }
   return sharp(raw, { raw: { width, height, channels: 3 } }).jpeg({ quality: 92 }).toBuffer();

@@ -1,5 +1,6 @@
 import { QueryTypes, UniqueConstraintError, type Transaction } from 'sequelize';
 import { isPastDueDate, utcDate } from '../../shared/domain/finding-workflow';
+import { byText } from '../../shared/domain/readiness';
 import type { Role } from '../../shared/schemas/auth';
 import {
   GATE_ACTION_STATUS_LABELS,
@@ -238,7 +239,7 @@ export async function openReview(deps: Deps, user: SessionUser, input: CreateRev
         asOf: asOf.toISOString(),
         stage: rollup,
         assets: [...assets]
-          .sort((a, b) => a.readiness.score - b.readiness.score || a.tag.localeCompare(b.tag))
+          .sort((a, b) => a.readiness.score - b.readiness.score || byText(a.tag, b.tag))
           .map((a) => ({ id: a.id, tag: a.tag, score: a.readiness.score, result: a.readiness.result, cleared: a.readiness.cleared })),
       };
       const [row] = await deps.sequelize.query<{ id: string }>(

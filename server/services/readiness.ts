@@ -1,6 +1,6 @@
 import { QueryTypes, type Transaction } from 'sequelize';
 import { isPastDueDate } from '../../shared/domain/finding-workflow';
-import { computeReadiness, rollUpStage, type AssetFigure, type ReadinessFinding, type ReadinessInput } from '../../shared/domain/readiness';
+import { byText, computeReadiness, rollUpStage, type AssetFigure, type ReadinessFinding, type ReadinessInput } from '../../shared/domain/readiness';
 import { TREND_SERIES_DAYS, TREND_WINDOW_DAYS, addDays, fitLoadTrend, forecastStage, isoDay, meetsTarget, type LoadPoint } from '../../shared/domain/trend';
 import type { AssetKind, AssetStatus, GateSettings } from '../../shared/schemas/assets';
 import { CLOSED_FINDING_STATUSES, type FindingSeverity, type FindingStatus } from '../../shared/schemas/findings';
@@ -54,7 +54,7 @@ type AssetRow = {
   status: AssetStatus;
   required_total: number;
   required_done: number;
-  open_required: Array<{ id: string; title: string }>;
+  open_required: Array<{ id: string; title: string; position: number }>;
   cfg: string | null;
 };
 
@@ -69,39 +69,56 @@ export async function computeFigures(deps: Deps, scope: ReadinessScope, asOf: Da
   );
   const stages: StageInfo[] = stageRows.map((s) => ({ id: s.id, name: s.name, position: s.position, retired: s.retired, gate: s.gate, targetDate: s.target_date }));
 
-  // $1 program, $2 one asset or NULL, $3 one stage or NULL, $4 whether retired assets count.
-  const bind = [scope.programId, scope.assetId ?? null, scope.stageId ?? null, scope.includeRetired ?? false];
-  const inScope = `a.program_id = $1 AND ($2::uuid IS NULL OR a.id = $2::uuid) AND ($3::uuid IS NULL OR a.stage_id = $3::uuid)
-                   AND ($4::boolean OR a.status <> 'retired')`;
+  // Only the conditions that apply go into the statements, so the planner sees exact filters
+  // (a generic "$2 IS NULL OR ..." misleads its row estimates on large programs).
+  const bind: unknown[] = [scope.programId];
+  const p = (value: unknown) => `$${bind.push(value)}`;
+  const assetWhere = ['a.program_id = $1'];
+  const visitWhere = ['v.program_id = $1', 'v.left_at IS NULL'];
+  const installedWhere = ['i.program_id = $1'];
+  if (scope.assetId) {
+    const id = p(scope.assetId);
+    assetWhere.push(`a.id = ${id}`);
+    visitWhere.push(`v.asset_id = ${id}`);
+    installedWhere.push(`i.asset_id = ${id}`);
+  }
+  if (scope.stageId) {
+    const id = p(scope.stageId);
+    assetWhere.push(`a.stage_id = ${id}`);
+    visitWhere.push(`v.stage_id = ${id}`);
+    installedWhere.push(`i.asset_id IN (SELECT s.id FROM assets s WHERE s.program_id = $1 AND s.stage_id = ${id})`);
+  }
+  if (!scope.includeRetired) assetWhere.push(`a.status <> 'retired'`);
+  // Open required items go out unordered (no sort per asset in the database); position orders them here.
   const assetRows = await sequelize.query<AssetRow>(
-    `WITH scoped AS (SELECT a.id, a.tag, a.kind, a.stage_id, a.status FROM assets a WHERE ${inScope}),
-     ck AS (
-       SELECT ci.asset_id,
-              count(*) FILTER (WHERE ci.required_for_gate)::int AS required_total,
-              count(*) FILTER (WHERE ci.required_for_gate AND ci.state IN ('passed', 'not-applicable'))::int AS required_done,
-              jsonb_agg(jsonb_build_object('id', ci.id, 'title', ci.title) ORDER BY ci.position, ci.id)
-                FILTER (WHERE ci.required_for_gate AND ci.state NOT IN ('passed', 'not-applicable')) AS open_required
-         FROM stage_visits v JOIN checklist_items ci ON ci.visit_id = v.id
-        WHERE v.left_at IS NULL AND v.program_id = $1 AND v.asset_id IN (SELECT id FROM scoped)
-        GROUP BY ci.asset_id
-     ),
-     sw AS (
-       SELECT i.asset_id, json_object_agg(i.ecu_id, i.software_version ORDER BY i.ecu_id)::text AS cfg
-         FROM installed_software i
-        WHERE i.program_id = $1 AND i.asset_id IN (SELECT id FROM scoped)
-        GROUP BY i.asset_id
-     )
-     SELECT a.id, a.tag, a.kind, a.stage_id, a.status,
+    `SELECT a.id, a.tag, a.kind, a.stage_id, a.status,
             coalesce(ck.required_total, 0) AS required_total, coalesce(ck.required_done, 0) AS required_done,
             coalesce(ck.open_required, '[]'::jsonb) AS open_required, sw.cfg
-       FROM scoped a LEFT JOIN ck ON ck.asset_id = a.id LEFT JOIN sw ON sw.asset_id = a.id
+       FROM assets a
+       LEFT JOIN (
+         SELECT v.asset_id,
+                count(*) FILTER (WHERE ci.required_for_gate)::int AS required_total,
+                count(*) FILTER (WHERE ci.required_for_gate AND ci.state IN ('passed', 'not-applicable'))::int AS required_done,
+                jsonb_agg(jsonb_build_object('id', ci.id, 'title', ci.title, 'position', ci.position))
+                  FILTER (WHERE ci.required_for_gate AND ci.state NOT IN ('passed', 'not-applicable')) AS open_required
+           FROM stage_visits v JOIN checklist_items ci ON ci.visit_id = v.id
+          WHERE ${visitWhere.join(' AND ')}
+          GROUP BY v.asset_id
+       ) ck ON ck.asset_id = a.id
+       LEFT JOIN (
+         SELECT i.asset_id, json_object_agg(i.ecu_id, i.software_version ORDER BY i.ecu_id)::text AS cfg
+           FROM installed_software i
+          WHERE ${installedWhere.join(' AND ')}
+          GROUP BY i.asset_id
+       ) sw ON sw.asset_id = a.id
+      WHERE ${assetWhere.join(' AND ')}
       ORDER BY a.tag, a.id`,
     { bind, type: QueryTypes.SELECT, transaction },
   );
   const findingRows = await sequelize.query<{ id: string; asset_id: string; title: string; severity: FindingSeverity; status: FindingStatus; due_date: string | null }>(
     `SELECT f.id, f.asset_id, f.title, f.severity, f.status, f.due_date::text AS due_date
        FROM findings f JOIN assets a ON a.id = f.asset_id
-      WHERE f.program_id = $1 AND f.status NOT IN (${CLOSED_SQL}) AND ${inScope}`,
+      WHERE f.program_id = $1 AND f.status NOT IN (${CLOSED_SQL}) AND ${assetWhere.join(' AND ')}`,
     { bind, type: QueryTypes.SELECT, transaction },
   );
   const ecus = await loadEcus(deps, scope.programId, transaction);
@@ -133,7 +150,13 @@ export async function computeFigures(deps: Deps, scope: ReadinessScope, asOf: Da
     }
     const v = validation.get(a.id) ?? { allocated: 0, passed: 0, notPassed: [] };
     const input: Omit<ReadinessInput, 'gate' | 'asOf'> = {
-      checklist: { requiredTotal: a.required_total, requiredPassedOrNa: a.required_done, openRequired: a.open_required },
+      checklist: {
+        requiredTotal: a.required_total,
+        requiredPassedOrNa: a.required_done,
+        openRequired: a.open_required
+          .sort((x, y) => x.position - y.position || byText(x.id, y.id))
+          .map((item) => ({ id: item.id, title: item.title })),
+      },
       findings: findingsByAsset.get(a.id) ?? [],
       software: {
         inBaseline: evaluation.result.expected,
@@ -141,7 +164,7 @@ export async function computeFigures(deps: Deps, scope: ReadinessScope, asOf: Da
         offBaseline: evaluation.result.ecus
           .filter((e) => e.target !== null && !e.countsAsOnBaseline)
           .map((e) => ({ ecuId: e.ecuId, code: ecuCode.get(e.ecuId) ?? '?', status: e.status }))
-          .sort((x, y) => x.code.localeCompare(y.code)),
+          .sort((x, y) => byText(x.code, y.code)),
       },
       validation: { allocated: v.allocated, passed: v.passed, notPassed: v.notPassed },
     };

@@ -89,7 +89,7 @@ export function targetLoad(stage: StageNow): number | null {
 export function forecastStage(series: readonly LoadPoint[], stage: StageNow, asOf: Date, windowDays = TREND_WINDOW_DAYS): Forecast {
   const toDate = isoDay(asOf);
   const fromDate = addDays(toDate, -(windowDays - 1));
-  const inWindow = [...series].filter((p) => p.date >= fromDate && p.date <= toDate).sort((a, b) => a.date.localeCompare(b.date));
+  const inWindow = [...series].filter((p) => p.date >= fromDate && p.date <= toDate).sort((a, b) => (a.date < b.date ? -1 : a.date > b.date ? 1 : 0));
   const latest = inWindow[inWindow.length - 1] ?? null;
   const fit = fitLoadTrend(series, asOf, windowDays);
   const target = targetLoad(stage);

@@ -53,7 +53,7 @@ function campaign(overrides: Partial<Campaign> = {}): Campaign {
     ],
     progress: { unit: 'hours', done: 12, planned: 32, fraction: 0.375, complete: false },
     currentStep: { id: HUMID_ID, name: 'Damp heat', index: 0 },
-    projectedFinish: '2026-12-02T16:00:00.000Z',
+    projectedFinish: '2026-12-02T12:00:00.000Z',
     updatedAt: '2026-12-01T20:00:00.000Z',
     version: 3,
     ...overrides,

@@ -66,17 +66,21 @@ export async function openReview(t: TestApp, world: World, stageId: string, fiel
   return res.body as GateReview;
 }
 
-/** Counts the SQL statements Sequelize sends while `work` runs (its `logging` hook sees every one). */
+/**
+ * Counts the SQL statements Sequelize sends while `work` runs, through its `logging` option (read
+ * at each query, so every statement passes it; the type declarations leave `options` out).
+ */
 export async function countStatements(t: TestApp, work: () => Promise<unknown>): Promise<{ count: number; statements: string[] }> {
   const statements: string[] = [];
-  const previous = t.sequelize.options.logging;
-  t.sequelize.options.logging = (sql: string) => {
+  const options = (t.sequelize as unknown as { options: { logging: unknown } }).options;
+  const previous = options.logging;
+  options.logging = (sql: string) => {
     statements.push(sql);
   };
   try {
     await work();
   } finally {
-    t.sequelize.options.logging = previous;
+    options.logging = previous;
   }
   return { count: statements.length, statements };
 }

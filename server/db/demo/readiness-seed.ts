@@ -7,7 +7,7 @@
 // The other program gets today's snapshot only. Everything here is invented.
 import crypto from 'node:crypto';
 import type { CreationAttributes, Transaction } from 'sequelize';
-import { resultFor, roundScore } from '../../../shared/domain/readiness';
+import { byText, resultFor, roundScore } from '../../../shared/domain/readiness';
 import { addDays, forecastStage, isoDay, type LoadPoint } from '../../../shared/domain/trend';
 import type { Attendee, FrozenRollup } from '../../../shared/schemas/readiness';
 import type { Deps } from '../../deps';
@@ -124,7 +124,7 @@ export async function seedReadiness(ctx: { transaction: Transaction; now: number
       [...days.entries()]
         .filter(([d]) => d >= upTo)
         .map(([, f]) => ({ date: isoDay(f.asOf), load: f.assets.filter((a) => a.stageId === stageId).reduce((s, a) => s + a.readiness.findingsLoad, 0) }))
-        .sort((a, b) => a.date.localeCompare(b.date));
+        .sort((a, b) => byText(a.date, b.date));
 
     const lead = people.find((p) => p.role === 'lead')!;
     const byRole = (role: string) => people.filter((p) => p.role === role);
@@ -142,7 +142,7 @@ export async function seedReadiness(ctx: { transaction: Transaction; now: number
         asOf: openedAt.toISOString(),
         stage: rollup,
         assets: [...assets]
-          .sort((a, b) => a.readiness.score - b.readiness.score || a.tag.localeCompare(b.tag))
+          .sort((a, b) => a.readiness.score - b.readiness.score || byText(a.tag, b.tag))
           .map((a) => ({ id: a.id, tag: a.tag, score: a.readiness.score, result: a.readiness.result, cleared: a.readiness.cleared })),
       };
       const attendees: Attendee[] = [

@@ -1,0 +1,5 @@
+import { DriversScreen } from '@/components/fleet/drivers-screen';
+
+export default function DriversRoute() {
+  return <DriversScreen />;
+}

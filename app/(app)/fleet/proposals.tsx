@@ -1,0 +1,5 @@
+import { ProposalsScreen } from '@/components/fleet/proposals-screen';
+
+export default function ProposalsRoute() {
+  return <ProposalsScreen />;
+}

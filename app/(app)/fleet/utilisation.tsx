@@ -1,0 +1,5 @@
+import { UtilisationScreen } from '@/components/fleet/utilisation-screen';
+
+export default function UtilisationRoute() {
+  return <UtilisationScreen />;
+}

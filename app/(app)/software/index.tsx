@@ -1,0 +1,5 @@
+import { SoftwareMatrixScreen } from '@/components/software/software-matrix-screen';
+
+export default function SoftwareMatrixRoute() {
+  return <SoftwareMatrixScreen />;
+}
