@@ -1,6 +1,7 @@
 import { useState, type ReactNode } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { AssetFindingsCard } from '@/components/findings/asset-findings-card';
+import { AssetReadinessCard } from '@/components/readiness/asset-readiness-card';
 import { PhotoCount, PhotoGrid } from '@/components/photos/photo-grid';
 import { PhotoPicker } from '@/components/photos/photo-picker';
 import { Button } from '@/components/ui/button';
@@ -173,6 +174,7 @@ function AssetDetail({ asset }: { asset: AssetDetail }) {
       </View>
       {asset.cleared ? null : <NotClearedCaution reason={asset.notClearedReason} />}
       {notice ? <Notice tone="success" message={notice} testID="asset-notice" /> : null}
+      <AssetReadinessCard assetId={asset.id} />
       <AssetFindingsCard assetId={asset.id} programId={asset.programId} />
       <TextLink href={`/assets/${asset.id}/campaigns`} label="Test campaigns" testID="asset-campaigns-link" />
       <TextLink href={`/assets/${asset.id}/software`} label="Software" testID="asset-software-link" />

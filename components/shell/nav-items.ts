@@ -19,6 +19,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { href: '/fleet', label: 'Fleet', icon: 'programs', roles: ['coordinator', 'lead'] },
   { href: '/fleet/mine', label: 'My drives', icon: 'programs', roles: ['driver'] },
   { href: '/stages', label: 'Stages', icon: 'stages', roles: ['lead', 'engineer'] },
+  { href: '/readiness', label: 'Readiness', icon: 'check', roles: ['lead', 'engineer', 'technician', 'coordinator'] },
   { href: '/admin/users', label: 'Users', icon: 'users', roles: ['admin'] },
   { href: '/admin/programs', label: 'Programs', icon: 'programs', roles: ['admin'] },
 ];

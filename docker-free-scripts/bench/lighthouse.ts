@@ -22,17 +22,31 @@ export const CHROMIUM_FLAGS = [
   '--disable-sync',
 ];
 
-export type LighthouseRun = { score: number; lcpMs: number; tbtMs: number; cls: number; fcpMs: number; finalUrl: string; signedIn: boolean };
+export type LighthouseRun = {
+  score: number;
+  lcpMs: number;
+  tbtMs: number;
+  cls: number;
+  fcpMs: number;
+  finalUrl: string;
+  signedIn: boolean;
+  /** Redirects of the page's own URL, e.g. "/assets -> 301". */
+  redirects: string[];
+  /** Lighthouse's CPU benchmark of the machine during the run (higher is faster; it drops when other work competes). */
+  benchmarkIndex: number;
+};
 export type LighthouseFigure = LighthouseRun & { runs: LighthouseRun[]; url: string; chromium: string; lighthouse: string };
 
 type Lhr = {
   lighthouseVersion: string;
   finalDisplayedUrl: string;
-  environment?: { hostUserAgent?: string };
+  environment?: { hostUserAgent?: string; benchmarkIndex?: number };
   categories: { performance?: { score: number | null } };
-  audits: Record<string, { numericValue?: number; details?: { items?: Array<{ url?: string }> } }>;
+  audits: Record<string, { numericValue?: number; details?: { items?: Array<{ url?: string; statusCode?: number; resourceType?: string }> } }>;
   runtimeError?: { message: string };
 };
+
+const samePath = (a: string, b: string) => new URL(a).pathname.replace(/\/$/, '') === new URL(b).pathname.replace(/\/$/, '');
 
 async function startChromium(userDataDir: string): Promise<{ child: ChildProcess; port: number }> {
   const port = await freePort();
@@ -112,8 +126,12 @@ export async function runLighthouse(opts: {
       cls: lhr.audits['cumulative-layout-shift']?.numericValue ?? NaN,
       fcpMs: lhr.audits['first-contentful-paint']?.numericValue ?? NaN,
       finalUrl: lhr.finalDisplayedUrl,
-      // It stayed on the page asked for (not sent to sign-in) and asked the API for its data.
-      signedIn: new URL(lhr.finalDisplayedUrl).pathname === new URL(url).pathname && requests.some((r) => opts.signedInRequest.test(r.url ?? '')),
+      // It stayed on the page asked for (not sent to sign-in; a trailing slash aside) and asked the API for its data.
+      signedIn: samePath(lhr.finalDisplayedUrl, url) && requests.some((r) => opts.signedInRequest.test(r.url ?? '')),
+      redirects: requests
+        .filter((r) => r.resourceType === 'Document' && (r.statusCode ?? 0) >= 300 && (r.statusCode ?? 0) < 400)
+        .map((r) => `${new URL(r.url ?? url).pathname} -> ${r.statusCode}`),
+      benchmarkIndex: lhr.environment?.benchmarkIndex ?? NaN,
     };
   };
   const runs = lhrs.map(toRun);

@@ -50,14 +50,15 @@ export function rows(r: Results): Row[] {
   if (lh) {
     const where = `Lighthouse ${new URL(lh.url).pathname} (mobile)`;
     const signed = lh.signedIn ? '' : ' (NOT signed in: the page never asked for /api/assets)';
-    out.push({ area: where, figure: 'Performance score', value: `${lh.score}${signed}`, goal: `>= ${FLOOR.score} (STACK.md empty-app floor)`, verdict: verdict(lh.signedIn && lh.score >= FLOOR.score) });
+    const redirected = lh.redirects.length ? `; the page's URL redirected first: ${lh.redirects.join(', ')}` : '';
+    out.push({ area: where, figure: 'Performance score', value: `${lh.score}${signed}${redirected} (CPU benchmark index ${Math.round(lh.benchmarkIndex)})`, goal: `>= ${FLOOR.score} (STACK.md empty-app floor)`, verdict: verdict(lh.signedIn && lh.score >= FLOOR.score) });
     out.push({ area: where, figure: 'Largest Contentful Paint', value: secs(lh.lcpMs), goal: `<= ${secs(FLOOR.lcpMs)} (STACK.md floor)`, verdict: verdict(lh.signedIn && lh.lcpMs <= FLOOR.lcpMs) });
     out.push({ area: where, figure: 'Total Blocking Time', value: ms(lh.tbtMs), goal: `<= ${FLOOR.tbtMs} ms (STACK.md floor)`, verdict: verdict(lh.signedIn && lh.tbtMs <= FLOOR.tbtMs) });
     out.push({ area: where, figure: 'Cumulative Layout Shift', value: lh.cls.toFixed(3), goal: `<= ${CLS_GOOD} (Core Web Vitals "good")`, verdict: verdict(lh.signedIn && lh.cls <= CLS_GOOD) });
   }
   const le = r.lighthouse?.empty;
   if (le) {
-    out.push({ area: 'Lighthouse, empty app (same run)', figure: 'Score / LCP / TBT / CLS', value: `${le.score} / ${secs(le.lcpMs)} / ${ms(le.tbtMs)} / ${le.cls.toFixed(3)}`, goal: 'reference: this machine\'s floor now', verdict: '—' });
+    out.push({ area: 'Lighthouse, empty app (same run)', figure: 'Score / LCP / TBT / CLS', value: `${le.score} / ${secs(le.lcpMs)} / ${ms(le.tbtMs)} / ${le.cls.toFixed(3)} (CPU benchmark index ${Math.round(le.benchmarkIndex)})`, goal: 'reference: this machine\'s floor now', verdict: '—' });
   }
   for (const a of r.api ?? []) {
     const area = `API: ${a.name}`;

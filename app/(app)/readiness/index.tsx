@@ -1,0 +1,5 @@
+import { ReadinessScreen } from '@/components/readiness/readiness-screen';
+
+export default function ReadinessRoute() {
+  return <ReadinessScreen />;
+}
