@@ -10,7 +10,6 @@ import { Select } from '@/components/ui/select';
 import { ErrorState, LoadingState, Notice } from '@/components/ui/states';
 import { Heading, Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
-import { TextLink } from '@/components/ui/text-link';
 import { RequireRole } from '@/components/shell/require-role';
 import { spacing } from '@/components/theme/tokens';
 import { fieldErrors } from '@/hooks/api/api-client';
@@ -178,7 +177,6 @@ function BookForm({ params }: { params: BookParams }) {
   return (
     <Screen testID="fleet-book">
       <FleetHeader title="Book a vehicle" />
-      <TextLink href="/fleet" label="Back to the fleet plan" />
       <RoadCaution />
       {!currentProgramId ? (
         <Notice message="Join a program to book its vehicles." />
@@ -208,6 +206,7 @@ function BookForm({ params }: { params: BookParams }) {
                 setAssetId(id);
               }}
               error={errors.assetId}
+              hideLabel
             />
             {vehicles.hasNextPage ? (
               <Button label="Show more vehicles" variant="ghost" compact loading={vehicles.isFetchingNextPage} onPress={() => void vehicles.fetchNextPage()} />
@@ -274,6 +273,7 @@ function BookForm({ params }: { params: BookParams }) {
               }}
               needs={{ stage: stage?.name, minLevel: stage?.minDriverLevel, endsAt: endIso }}
               error={errors.driverId}
+              hideLabel
             />
             <Checkbox
               label="Show everyone in the program"

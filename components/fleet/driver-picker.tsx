@@ -38,6 +38,7 @@ export function DriverPicker({
   onChange,
   needs = {},
   error,
+  hideLabel = false,
   testID = 'book-driver',
 }: {
   label?: string;
@@ -46,6 +47,8 @@ export function DriverPicker({
   onChange: (userId: string) => void;
   needs?: DriverNeeds;
   error?: string;
+  /** A heading above already says it; the label stays for screen readers. */
+  hideLabel?: boolean;
   testID?: string;
 }) {
   const labelId = `${useId().replace(/[^a-zA-Z0-9_-]/g, '')}-label`;
@@ -54,7 +57,7 @@ export function DriverPicker({
   const shown = !browsing && chosen ? [chosen] : drivers;
   return (
     <View style={styles.field}>
-      <Text variant="label" nativeID={labelId}>
+      <Text variant="label" nativeID={labelId} style={hideLabel ? styles.visuallyHidden : undefined}>
         {label}
       </Text>
       <View role="radiogroup" aria-labelledby={labelId} testID={testID} style={styles.list}>
@@ -92,5 +95,12 @@ const styles = StyleSheet.create({
   },
   list: {
     gap: spacing.xs,
+  },
+  visuallyHidden: {
+    position: 'absolute',
+    width: 1,
+    height: 1,
+    overflow: 'hidden',
+    opacity: 0,
   },
 });

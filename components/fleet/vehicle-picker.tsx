@@ -25,6 +25,7 @@ export function VehiclePicker({
   value,
   onChange,
   error,
+  hideLabel = false,
   testID = 'book-asset',
 }: {
   vehicles: readonly AssetSummary[];
@@ -32,6 +33,8 @@ export function VehiclePicker({
   value: string | null;
   onChange: (assetId: string) => void;
   error?: string;
+  /** A heading above already says it; the label stays for screen readers. */
+  hideLabel?: boolean;
   testID?: string;
 }) {
   const labelId = `${useId().replace(/[^a-zA-Z0-9_-]/g, '')}-label`;
@@ -50,7 +53,7 @@ export function VehiclePicker({
 
   return (
     <View style={styles.field}>
-      <Text variant="label" nativeID={labelId}>
+      <Text variant="label" nativeID={labelId} style={hideLabel ? styles.visuallyHidden : undefined}>
         Vehicle
       </Text>
       {(browsing || !chosen) && vehicles.length > SEARCH_FROM ? (
@@ -111,5 +114,12 @@ const styles = StyleSheet.create({
   },
   list: {
     gap: spacing.xs,
+  },
+  visuallyHidden: {
+    position: 'absolute',
+    width: 1,
+    height: 1,
+    overflow: 'hidden',
+    opacity: 0,
   },
 });

@@ -257,7 +257,16 @@ export const TemplateItemInputSchema = z.strictObject({
   requiredForGate: z.boolean().default(true),
   hvQualified: z.boolean().default(false),
 });
-export const UpdateTemplateItemSchema = TemplateItemInputSchema.partial().extend({
+// Written out field by field: zod 4 keeps each field's default inside .partial(), so a partial
+// of the input schema would quietly reset every field a PATCH leaves out.
+export const UpdateTemplateItemSchema = z.strictObject({
+  system: SystemSchema.optional(),
+  title: text(160).min(1, 'Enter a title.').optional(),
+  instructions: text(2000).optional(),
+  expectedPartNumber: text(60).optional(),
+  expectedRevision: text(20).optional(),
+  requiredForGate: z.boolean().optional(),
+  hvQualified: z.boolean().optional(),
   retired: z.boolean().optional(),
   position: z.number().int().min(0).optional(),
   version: z.number().int().min(0),
