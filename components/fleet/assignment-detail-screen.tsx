@@ -110,10 +110,10 @@ function AssignmentDetail({ assignment: a, booked }: { assignment: Assignment; b
         ) : now >= end ? (
           <Notice tone="warning" message="The window of this assignment has passed; ask the coordinator to change it." testID="checkout-passed" />
         ) : (
-          <CheckOutForm key={a.version} assignment={a} />
+          <CheckOutForm key={a.version} assignment={a} onDone={setNotice} />
         )
       ) : null}
-      {a.status === 'checked-out' && mayHandle ? <CheckInForm key={a.version} assignment={a} /> : null}
+      {a.status === 'checked-out' && mayHandle ? <CheckInForm key={a.version} assignment={a} onDone={setNotice} /> : null}
 
       {a.checkin?.findingId ? (
         <Notice tone="warning" message="The damage notes were filed as a finding on the vehicle." testID="checkin-finding" />

@@ -63,7 +63,7 @@ function useKeyFor() {
 }
 
 /** The driver takes the vehicle: odometer (filled with the last reading), charge, photos, notes. */
-export function CheckOutForm({ assignment }: { assignment: Assignment }) {
+export function CheckOutForm({ assignment, onDone }: { assignment: Assignment; onDone: (message: string) => void }) {
   const [odometer, setOdometer] = useState(String(assignment.vehicle.odometerKm));
   const [charge, setCharge] = useState('');
   const [notes, setNotes] = useState('');
@@ -85,6 +85,7 @@ export function CheckOutForm({ assignment }: { assignment: Assignment }) {
     checkOut.mutate(
       { ...body, idempotencyKey: keyFor(body) },
       {
+        onSuccess: () => onDone('Checked out. Check the vehicle in here when you bring it back.'),
         onError: (error) => {
           const refused = refusalReasons(error);
           if (refused) return setReasons(refused);
@@ -138,7 +139,7 @@ export function CheckOutForm({ assignment }: { assignment: Assignment }) {
 }
 
 /** The vehicle comes back: odometer (never below the check-out reading), charge, photos, notes and damage. */
-export function CheckInForm({ assignment }: { assignment: Assignment }) {
+export function CheckInForm({ assignment, onDone }: { assignment: Assignment; onDone: (message: string) => void }) {
   const [odometer, setOdometer] = useState('');
   const [charge, setCharge] = useState('');
   const [notes, setNotes] = useState('');
@@ -169,6 +170,10 @@ export function CheckInForm({ assignment }: { assignment: Assignment }) {
     checkIn.mutate(
       { ...body, idempotencyKey: keyFor(body) },
       {
+        onSuccess: (saved) => {
+          const driven = saved.checkin && saved.checkout ? Math.max(0, saved.checkin.odometerKm - saved.checkout.odometerKm) : null;
+          onDone(`Checked in${driven !== null ? `: ${formatKm(driven)} driven` : ''}. Thank you.`);
+        },
         onError: (error) => {
           const fields = serverErrors(error);
           setErrors(fields);

@@ -9,17 +9,21 @@ export type NavItem = {
   roles: readonly Role[];
 };
 
-/** Every place the shell links to, in order. Features add their entry here. */
+/**
+ * Every place the shell links to, in order. Features add their entry here. On a phone the first
+ * four of a role's items stay in the tab bar and the rest go under More, so the order puts each
+ * role's daily work first.
+ */
 export const NAV_ITEMS: readonly NavItem[] = [
   { href: '/', label: 'Home', icon: 'home', roles: ROLES },
   { href: '/assets', label: 'Assets', icon: 'assets', roles: ROLES },
   { href: '/findings', label: 'Findings', icon: 'warning', roles: FINDING_MEMBER_ROLES },
+  { href: '/readiness', label: 'Readiness', icon: 'check', roles: ['lead', 'engineer', 'technician', 'coordinator'] },
   { href: '/validation', label: 'Validation', icon: 'check', roles: ['engineer', 'lead', 'technician'] },
   { href: '/software', label: 'Software', icon: 'download', roles: ['engineer', 'lead', 'technician'] },
   { href: '/fleet', label: 'Fleet', icon: 'programs', roles: ['coordinator', 'lead'] },
   { href: '/fleet/mine', label: 'My drives', icon: 'programs', roles: ['driver'] },
   { href: '/stages', label: 'Stages', icon: 'stages', roles: ['lead', 'engineer'] },
-  { href: '/readiness', label: 'Readiness', icon: 'check', roles: ['lead', 'engineer', 'technician', 'coordinator'] },
   { href: '/admin/users', label: 'Users', icon: 'users', roles: ['admin'] },
   { href: '/admin/programs', label: 'Programs', icon: 'programs', roles: ['admin'] },
 ];

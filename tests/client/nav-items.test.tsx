@@ -17,11 +17,11 @@ const metrics = {
 
 describe('navigation items', () => {
   it.each<[Role, string[]]>([
-    ['technician', ['Home', 'Assets', 'Findings']],
-    ['engineer', ['Home', 'Assets', 'Findings', 'Stages']],
-    ['coordinator', ['Home', 'Assets', 'Findings']],
-    ['driver', ['Home', 'Assets', 'Findings']],
-    ['lead', ['Home', 'Assets', 'Findings', 'Stages']],
+    ['technician', ['Home', 'Assets', 'Findings', 'Readiness', 'Validation', 'Software']],
+    ['engineer', ['Home', 'Assets', 'Findings', 'Readiness', 'Validation', 'Software', 'Stages']],
+    ['coordinator', ['Home', 'Assets', 'Findings', 'Readiness', 'Fleet']],
+    ['driver', ['Home', 'Assets', 'Findings', 'My drives']],
+    ['lead', ['Home', 'Assets', 'Findings', 'Readiness', 'Validation', 'Software', 'Fleet', 'Stages']],
     ['admin', ['Home', 'Assets', 'Users', 'Programs']],
   ])('a %s sees %j', (role, labels) => {
     expect(navItemsFor(role).map((item) => item.label)).toEqual(labels);
@@ -43,14 +43,18 @@ describe('navigation items', () => {
     expect(isActiveHref(href, pathname)).toBe(active);
   });
 
-  it('the phone tab bar shows a technician Home, Assets and Findings, and marks Home as the current page', () => {
+  it('the phone tab bar shows a technician four tabs and More, and marks Home as the current page', () => {
     render(
       <SafeAreaProvider initialMetrics={metrics}>
         <TabBar items={navItemsFor('technician')} pathname="/" />
       </SafeAreaProvider>,
     );
     const bar = screen.getByTestId('shell-phone');
-    expect(bar.textContent).toBe('HomeAssetsFindings');
+    expect(bar.textContent).toBe('HomeAssetsFindingsReadinessMore');
+    expect(screen.queryByTestId('nav-validation')).toBeNull();
+    fireEvent.click(screen.getByTestId('nav-more'));
+    expect(screen.getByTestId('nav-validation')).toBeTruthy();
+    expect(screen.getByTestId('nav-software')).toBeTruthy();
     expect(screen.queryByTestId('nav-users')).toBeNull();
     expect(screen.getByTestId('nav-home').getAttribute('aria-current')).toBe('page');
     expect(screen.getByLabelText('Home')).toBeTruthy();
