@@ -63,7 +63,7 @@ function AssignmentDetail({ assignment: a, booked }: { assignment: Assignment; b
   return (
     <Screen testID="assignment-detail">
       <PageTitle title={title} />
-      <TextLink href={manager ? '/fleet' : '/fleet/mine'} label={manager ? 'Back to the fleet plan' : 'Back to my drives'} />
+      <TextLink href={user?.role === 'driver' ? '/fleet/mine' : '/fleet'} label={user?.role === 'driver' ? 'Back to my drives' : 'Back to the fleet plan'} />
       <View style={styles.header}>
         <Heading level={1} variant="title">
           {title}
@@ -77,6 +77,51 @@ function AssignmentDetail({ assignment: a, booked }: { assignment: Assignment; b
         </Text>
       </View>
       {notice ? <Notice tone="success" message={notice} testID="assignment-notice" /> : null}
+
+      {manager && (a.status === 'planned' || a.status === 'checked-out') ? (
+        changing ? (
+          <ChangeAssignmentForm
+            key={a.id}
+            assignment={a}
+            onDone={(message) => {
+              setChanging(false);
+              setNotice(message || null);
+            }}
+          />
+        ) : cancelling && a.status === 'planned' ? (
+          <CancelAssignment
+            assignment={a}
+            onClose={(message) => {
+              setCancelling(false);
+              setNotice(message);
+            }}
+          />
+        ) : (
+          <View style={styles.buttons}>
+            <Button
+              label="Change"
+              variant="secondary"
+              onPress={() => {
+                setNotice(null);
+                setChanging(true);
+              }}
+              testID="assignment-change-open"
+            />
+            {a.status === 'planned' ? (
+              <Button
+                label="Cancel assignment"
+                variant="danger"
+                onPress={() => {
+                  setNotice(null);
+                  setCancelling(true);
+                }}
+                testID="assignment-cancel-open"
+              />
+            ) : null}
+          </View>
+        )
+      ) : null}
+
 
       {a.status === 'planned' || a.status === 'checked-out' ? (
         <Card testID="assignment-vehicle">
@@ -145,50 +190,6 @@ function AssignmentDetail({ assignment: a, booked }: { assignment: Assignment; b
           ]}
           testID="assignment-checkin"
         />
-      ) : null}
-
-      {manager && (a.status === 'planned' || a.status === 'checked-out') ? (
-        changing ? (
-          <ChangeAssignmentForm
-            key={a.id}
-            assignment={a}
-            onDone={(message) => {
-              setChanging(false);
-              setNotice(message || null);
-            }}
-          />
-        ) : cancelling && a.status === 'planned' ? (
-          <CancelAssignment
-            assignment={a}
-            onClose={(message) => {
-              setCancelling(false);
-              setNotice(message);
-            }}
-          />
-        ) : (
-          <View style={styles.buttons}>
-            <Button
-              label="Change"
-              variant="secondary"
-              onPress={() => {
-                setNotice(null);
-                setChanging(true);
-              }}
-              testID="assignment-change-open"
-            />
-            {a.status === 'planned' ? (
-              <Button
-                label="Cancel assignment"
-                variant="danger"
-                onPress={() => {
-                  setNotice(null);
-                  setCancelling(true);
-                }}
-                testID="assignment-cancel-open"
-              />
-            ) : null}
-          </View>
-        )
       ) : null}
 
       <History id={a.id} />

@@ -110,7 +110,9 @@ function Proposals() {
       if (Object.keys(c.errors).length) found[drafts[i].key] = c.errors;
     });
     setErrors(found);
-    if (Object.keys(found).length || !currentProgramId) return;
+    const bad = drafts.flatMap((d, i) => (found[d.key] ? [i + 1] : []));
+    if (bad.length) setFailure(`${bad.length === 1 ? 'Request' : 'Requests'} ${bad.join(', ')} ${bad.length === 1 ? 'needs' : 'need'} attention: see the messages above.`);
+    if (bad.length || !currentProgramId) return;
     propose.mutate(
       { programId: currentProgramId, requests: checked.map((c) => c.request as ProposalRequest) },
       {

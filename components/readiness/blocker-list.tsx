@@ -33,5 +33,5 @@ export function BlockerList({ blockers, testID }: { blockers: Blocker[]; testID?
 const styles = StyleSheet.create({
   list: { gap: spacing.md },
   blocker: { gap: spacing.xxs },
-  item: { paddingLeft: spacing.md, flexDirection: 'row', flexWrap: 'wrap', columnGap: spacing.lg },
+  item: { paddingLeft: spacing.md, maxWidth: '100%' },
 });

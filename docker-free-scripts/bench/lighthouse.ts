@@ -129,7 +129,7 @@ export async function runLighthouse(opts: {
       // It stayed on the page asked for (not sent to sign-in; a trailing slash aside) and asked the API for its data.
       signedIn: samePath(lhr.finalDisplayedUrl, url) && requests.some((r) => opts.signedInRequest.test(r.url ?? '')),
       redirects: requests
-        .filter((r) => r.resourceType === 'Document' && (r.statusCode ?? 0) >= 300 && (r.statusCode ?? 0) < 400)
+        .filter((r) => (r.statusCode ?? 0) >= 300 && (r.statusCode ?? 0) < 400 && !!r.url && samePath(r.url, url))
         .map((r) => `${new URL(r.url ?? url).pathname} -> ${r.statusCode}`),
       benchmarkIndex: lhr.environment?.benchmarkIndex ?? NaN,
     };

@@ -54,10 +54,7 @@ describe('checking a vehicle in and out', () => {
   it('when the odometer goes down at check-in, then the server’s sentence shows at the field; damage notes then lead to the finding', async () => {
     const sentence = 'The odometer read 12480 km at check-out; it cannot go down.';
     const bodies: Array<Record<string, unknown>> = [];
-    let answer: { status: number; body: unknown } = {
-      status: 400,
-      body: { error: { code: 'request/invalid', message: `odometerKm: ${sentence}`, details: { fields: { odometerKm: sentence } } } },
-    };
+    const refusedReading = { error: { code: 'request/invalid', message: `odometerKm: ${sentence}`, details: { fields: { odometerKm: sentence } } } };
     global.fetch = routedFetch([
       { path: /\/api\/me$/, body: me(DRIVER, 'driver') },
       { path: /\/api\/assignments\/[0-9a-f-]+\/history$/, body: { entries: [] } },
@@ -68,7 +65,7 @@ describe('checking a vehicle in and out', () => {
         status: 400,
         body: (init) => {
           bodies.push(JSON.parse(String(init?.body)));
-          return answer.body;
+          return refusedReading;
         },
       },
     ]) as unknown as typeof fetch;
@@ -87,7 +84,6 @@ describe('checking a vehicle in and out', () => {
       version: 3,
       checkin: { odometerKm: 12731, chargePercent: 40, at: new Date().toISOString(), by: DRIVER, notes: '', photos: [], damageNotes: 'Scraped rear bumper', findingId: '3e3e3e3e-0000-4000-8000-0000000000bb' },
     });
-    answer = { status: 200, body: returned };
     global.fetch = routedFetch([
       { path: /\/api\/me$/, body: me(DRIVER, 'driver') },
       { path: /\/api\/assignments\/[0-9a-f-]+\/history$/, body: { entries: [] } },

@@ -101,6 +101,12 @@ describe('readiness at phone width', () => {
     const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
     expect(overflow).toBeLessThanOrEqual(0);
     await screenshot(page, 'readiness-rollup-phone');
+
+    // The stage's trend: the chart, the forecast sentence and the table of figures.
+    await page.getByTestId(`stage-trend-link-${rollup.stages[0].stageId}`).click();
+    await page.getByTestId('trend-table').waitFor();
+    expect(await page.getByTestId('stage-trend-forecast').textContent()).toBeTruthy();
+    await screenshot(page, 'readiness-trend-phone');
     await page.context().close();
   }, 60_000);
 });
