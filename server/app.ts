@@ -69,6 +69,8 @@ export function createApp(deps: Deps, options: AppOptions = {}) {
     app.use(
       express.static(dist, {
         index: false,
+        // dist/assets/ (fonts) shares its name with the /assets route: never redirect to a folder.
+        redirect: false,
         setHeaders(res, file) {
           // Hashed bundles never change; the HTML always revalidates.
           if (/[.-][0-9a-f]{16,}\.(js|css)$/.test(file) || file.includes(`${path.sep}assets${path.sep}`)) {
