@@ -132,7 +132,7 @@ function FleetPlan({ params }: { params: FleetParams }) {
     <Screen testID="fleet-plan">
       <FleetHeader
         title="Fleet"
-        actions={manager ? <Button label="Book a vehicle" icon="plus" compact onPress={() => router.push('/fleet/new')} testID="fleet-book" /> : null}
+        actions={manager ? <Button label="Book a vehicle" icon="plus" compact onPress={() => router.push('/fleet/new')} testID="fleet-book-open" /> : null}
       />
 
       {overdueItems.length ? (
