@@ -8,7 +8,7 @@ import path from 'node:path';
 import { ensureDatabase, startCluster, type Cluster } from './lib/postgres';
 import { freePort, waitForPort } from './lib/ports';
 import { ROOT, startFakes, startTs, stopChild } from './lib/services';
-import { buildWeb } from './lib/web-build';
+import { buildWeb, webDistDir } from './lib/web-build';
 
 const children: ChildProcess[] = [];
 let cluster: Cluster | undefined;
@@ -64,7 +64,8 @@ async function main() {
     DEV_INBOX_URL: `http://127.0.0.1:${smtpHttpPort}`,
     PORT: String(appPort),
     PUBLIC_URL: `http://127.0.0.1:${appPort}`,
-    TEST_ARTIFACTS: path.join(ROOT, 'test-artifacts'),
+    TEST_ARTIFACTS: process.env.TEST_ARTIFACTS ?? path.join(ROOT, 'test-artifacts'),
+    WEB_DIST: webDistDir(),
     AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true',
   };
   // Migrate and seed the demo data once; tests make their own rows beside it.

@@ -18,9 +18,14 @@ function fingerprint(): string {
   return hash.digest('hex');
 }
 
-/** Exports the web app to dist/ with Expo, unless dist/ was built from the same sources. */
+/** Where the web build goes: ./dist, or WEB_DIST (an absolute path) so that two checkouts' test runs don't share one. */
+export function webDistDir(): string {
+  return process.env.WEB_DIST ? path.resolve(process.env.WEB_DIST) : path.join(ROOT, 'dist');
+}
+
+/** Exports the web app to dist/ (or WEB_DIST) with Expo, unless it was built from the same sources. */
 export function buildWeb(opts: { force?: boolean } = {}): void {
-  const dist = path.join(ROOT, 'dist');
+  const dist = webDistDir();
   const stamp = path.join(dist, '.proofyard-build');
   const fp = fingerprint();
   if (!opts.force && fs.existsSync(stamp) && fs.readFileSync(stamp, 'utf8') === fp) {
@@ -28,7 +33,7 @@ export function buildWeb(opts: { force?: boolean } = {}): void {
     return;
   }
   console.log('proofyard: building the web app (expo export)...');
-  const res = spawnSync(path.join(ROOT, 'node_modules', '.bin', 'expo'), ['export', '--platform', 'web', '--output-dir', 'dist'], {
+  const res = spawnSync(path.join(ROOT, 'node_modules', '.bin', 'expo'), ['export', '--platform', 'web', '--output-dir', dist], {
     cwd: ROOT,
     stdio: ['ignore', 'ignore', 'inherit'],
     env: { ...process.env, CI: '1', EXPO_NO_TELEMETRY: '1' },
