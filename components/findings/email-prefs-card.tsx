@@ -13,9 +13,10 @@ const HINTS: Record<EmailKind, string> = {
   assigned: 'With a link to the finding',
   status: 'Open, in work, fixed, verified, rejected or reopened',
   digest: 'Once a day, only when a finding you own (or, for a lead, one in your programs) is overdue',
+  fleet: 'A vehicle booked for you to drive, a change to that booking, and returns that are overdue',
 };
 
-/** Which finding e-mails this person gets; each switch saves at once. */
+/** Which e-mails about findings and vehicle bookings this person gets; each switch saves at once. */
 export function EmailPrefsCard() {
   const prefs = useEmailPrefsQuery();
   const save = useUpdateEmailPrefsMutation();
@@ -29,7 +30,7 @@ export function EmailPrefsCard() {
   return (
     <Card testID="email-prefs">
       <Heading level={2} variant="heading">
-        E-mails about findings
+        E-mails I get
       </Heading>
       {prefs.isPending ? (
         prefs.isPaused ? (

@@ -16,9 +16,8 @@ export const FLEET_MAIL_KINDS = {
 } as const;
 
 /**
- * The e-mail settings screen lists the finding kinds only, and none of them fits a vehicle
- * booking, so fleet e-mails always go out, unless `fleet: false` is stored in the user's
- * email_prefs (a key kept for a later setting; the tests use it to keep the outbox short).
+ * Fleet e-mails (a booking for me, its changes, an overdue return) go out unless the user turned
+ * "Vehicle bookings" off on the home screen's e-mail card (`fleet: false` in email_prefs).
  */
 export const wantsFleetMail = (prefs: Record<string, unknown> | null | undefined) => prefs?.fleet !== false;
 

@@ -156,18 +156,20 @@ export const FindingHistorySchema = z.object({ entries: z.array(HistoryEntrySche
 // ---- E-mail preferences -------------------------------------------------------------------
 
 /** Kinds of finding e-mail a user can turn off; a kind missing from the stored preferences is on. */
-export const EMAIL_KINDS = ['assigned', 'status', 'digest'] as const;
+export const EMAIL_KINDS = ['assigned', 'status', 'digest', 'fleet'] as const;
 export type EmailKind = (typeof EMAIL_KINDS)[number];
 export const EMAIL_KIND_LABELS: Record<EmailKind, string> = {
   assigned: 'A finding is assigned to me',
   status: 'A finding I own or watch changes status',
   digest: 'Daily digest of overdue findings',
+  fleet: 'Vehicle bookings and overdue returns',
 };
 
 export const EmailPrefsSchema = z.strictObject({
   assigned: z.boolean(),
   status: z.boolean(),
   digest: z.boolean(),
+  fleet: z.boolean(),
 });
 export type EmailPrefs = z.infer<typeof EmailPrefsSchema>;
 

@@ -87,7 +87,7 @@ describe('turning e-mails off per kind', () => {
     const put = await request(t.app)
       .put('/api/me/email-prefs')
       .set('Authorization', `Bearer ${signToken(t.deps, owner)}`)
-      .send({ assigned: false, status: true, digest: true });
+      .send({ assigned: false, status: true, digest: true, fleet: true });
     expect(put.status).toBe(200);
     await fileFinding(t, world, { title: `API mute ${uid()}`, ownerId: owner.id }, 'engineer');
     expect(await queuedMail(t, owner.email)).toEqual([]);

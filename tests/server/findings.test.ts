@@ -397,16 +397,16 @@ describe('e-mail preferences', () => {
   it('when a user reads them first, then every kind is on; after a change, then the change is kept', async () => {
     const user = await makeUser({ role: 'driver', programIds: [world.program.id] });
     const auth = { Authorization: `Bearer ${signToken(t.deps, user)}` };
-    expect((await request(t.app).get('/api/me/email-prefs').set(auth)).body).toEqual({ assigned: true, status: true, digest: true });
-    const put = await request(t.app).put('/api/me/email-prefs').set(auth).send({ assigned: true, status: false, digest: false });
+    expect((await request(t.app).get('/api/me/email-prefs').set(auth)).body).toEqual({ assigned: true, status: true, digest: true, fleet: true });
+    const put = await request(t.app).put('/api/me/email-prefs').set(auth).send({ assigned: true, status: false, digest: false, fleet: false });
     expect(put.status).toBe(200);
-    expect((await request(t.app).get('/api/me/email-prefs').set(auth)).body).toEqual({ assigned: true, status: false, digest: false });
+    expect((await request(t.app).get('/api/me/email-prefs').set(auth)).body).toEqual({ assigned: true, status: false, digest: false, fleet: false });
   });
 
   it('when the body misses a kind or has an unknown one, then 400 naming it', async () => {
     const missing = await request(t.app).put('/api/me/email-prefs').set(world.auth('driver')).send({ assigned: true, status: true });
-    expect(Object.keys(missing.body.error.details.fields)).toEqual(['digest']);
-    const unknown = await request(t.app).put('/api/me/email-prefs').set(world.auth('driver')).send({ assigned: true, status: true, digest: true, gate: false });
+    expect(Object.keys(missing.body.error.details.fields)).toEqual(['digest', 'fleet']);
+    const unknown = await request(t.app).put('/api/me/email-prefs').set(world.auth('driver')).send({ assigned: true, status: true, digest: true, fleet: true, gate: false });
     expect(Object.keys(unknown.body.error.details.fields)).toEqual(['gate']);
   });
 });

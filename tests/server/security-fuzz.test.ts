@@ -126,7 +126,7 @@ const TEMPLATE: Record<string, () => Record<string, unknown>> = {
   'patch /api/findings/:id': () => ({ title: 'Renamed', version: 0 }),
   'post /api/findings/:id/comments': () => ({ body: 'A comment' }),
   'post /api/findings/:id/photos': () => ({}),
-  'put /api/me/email-prefs': () => ({ assigned: false, status: false, digest: false }),
+  'put /api/me/email-prefs': () => ({ assigned: false, status: false, digest: false, fleet: false }),
   'post /api/validation/tests': () => ({ stageId: ids.stage, name: 'Fuzz test', reliability: 0.9, confidence: 0.9 }),
   'patch /api/validation/tests/:id': () => ({ name: 'Renamed', version: 0 }),
   'post /api/validation/tests/:id/allocations': () => ({ assetId: ids.asset }),
