@@ -17,8 +17,8 @@ import type { SessionUser } from '../middleware/auth';
 import { recordHistory } from './history';
 import { enqueueMail } from './outbox';
 
-/** Outbox kinds of the finding e-mails, by preference kind. */
-export const MAIL_KINDS: Record<EmailKind, string> = {
+/** Outbox kinds of the finding e-mails, by preference kind (the `fleet` kind is fleet-mail.ts's). */
+export const MAIL_KINDS: Record<Exclude<EmailKind, 'fleet'>, string> = {
   assigned: 'finding-assigned',
   status: 'finding-status',
   digest: 'finding-digest',
