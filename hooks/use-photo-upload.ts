@@ -25,6 +25,8 @@ export type UploadJob = {
   status: 'uploading' | 'failed' | 'done';
   progress: number;
   error: string | null;
+  /** The stored photo, once sent (kept in the list only with `keepSent`). */
+  saved: Photo | null;
 };
 
 /**
@@ -53,8 +55,13 @@ function formDataFor(photo: PreparedPhoto, checklistItemId?: string): FormData {
   return form;
 }
 
-/** Uploads picked photos to an asset (or one of its checklist items) with progress and retry. */
-export function usePhotoUpload({ assetId, checklistItemId }: { assetId: string; checklistItemId?: string }) {
+/**
+ * Uploads picked photos to an asset (or one of its checklist items) with progress and retry.
+ * A sent photo joins the asset's cached photos and leaves the list; with `keepSent` it stays in
+ * the list with its stored record (`job.saved`) until dismissed, for a form that links the
+ * photos by id when it is sent (the walk-around of a vehicle check).
+ */
+export function usePhotoUpload({ assetId, checklistItemId, keepSent = false }: { assetId: string; checklistItemId?: string; keepSent?: boolean }) {
   const [jobs, setJobs] = useState<UploadJob[]>([]);
   const photoAdded = usePhotoAdded();
   const mounted = useRef(true);
@@ -80,7 +87,8 @@ export function usePhotoUpload({ assetId, checklistItemId }: { assetId: string; 
           headers: { [IDEMPOTENCY_HEADER]: key },
           onProgress: (fraction) => patch(key, { progress: fraction }),
         });
-        patch(key, { status: 'done', progress: 1 });
+        patch(key, { status: 'done', progress: 1, saved });
+        if (keepSent) return saved;
         await photoAdded(saved);
         // A finished upload leaves the list: the photo now shows with the others.
         if (mounted.current) setJobs((list) => list.filter((job) => job.key !== key));
@@ -90,13 +98,13 @@ export function usePhotoUpload({ assetId, checklistItemId }: { assetId: string; 
         return null;
       }
     },
-    [assetId, checklistItemId, patch, photoAdded],
+    [assetId, checklistItemId, keepSent, patch, photoAdded],
   );
 
   const add = useCallback(
     (photo: PreparedPhoto) => {
       const key = randomId();
-      setJobs((list) => [...list, { key, photo, status: 'uploading', progress: 0, error: null }]);
+      setJobs((list) => [...list, { key, photo, status: 'uploading', progress: 0, error: null, saved: null }]);
       return send(key, photo);
     },
     [send],

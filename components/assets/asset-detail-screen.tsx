@@ -1,17 +1,17 @@
-import { useState, type ReactNode } from 'react';
+import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { AssetFindingsCard } from '@/components/findings/asset-findings-card';
 import { AssetReadinessCard } from '@/components/readiness/asset-readiness-card';
 import { PhotoCount, PhotoGrid } from '@/components/photos/photo-grid';
 import { PhotoPicker } from '@/components/photos/photo-picker';
 import { Button } from '@/components/ui/button';
-import { Card } from '@/components/ui/card';
 import { Badge } from '@/components/ui/chip';
+import { Columns, DetailHeader, Fact, Section } from '@/components/ui/detail';
 import { PageTitle } from '@/components/ui/page-title';
 import { ProgressBar } from '@/components/ui/progress-bar';
 import { Screen } from '@/components/ui/screen';
 import { ErrorState, LoadingState, Notice } from '@/components/ui/states';
-import { Heading, Text } from '@/components/ui/text';
+import { Text } from '@/components/ui/text';
 import { TextLink } from '@/components/ui/text-link';
 import { colors, spacing } from '@/components/theme/tokens';
 import { errorMessage } from '@/hooks/api/api-client';
@@ -63,15 +63,15 @@ function AssetDetail({ asset }: { asset: AssetDetail }) {
     mode === 'edit' ? (
       <AssetEditForm asset={asset} onDone={done} />
     ) : (
-      <Card testID="asset-overview">
-        <View style={styles.cardHead}>
-          <Heading level={2} variant="heading">
-            Overview
-          </Heading>
-          {can.editAsset(user?.role) ? (
+      <Section
+        title="Overview"
+        action={
+          can.editAsset(user?.role) ? (
             <Button label="Edit" variant="secondary" compact accessibilityLabel={`Edit ${asset.tag}`} onPress={() => setMode('edit')} testID="asset-edit-open" />
-          ) : null}
-        </View>
+          ) : null
+        }
+        testID="asset-overview"
+      >
         <Fact label="Kind">{ASSET_KIND_LABELS[asset.kind]}</Fact>
         <Fact label="Status">
           <StatusBadge status={asset.status} testID="asset-status" />
@@ -89,19 +89,19 @@ function AssetDetail({ asset }: { asset: AssetDetail }) {
         <Fact label="Build date">{formatDate(asset.buildDate)}</Fact>
         <Fact label="Last change">{formatDateTime(asset.updatedAt)}</Fact>
         {asset.notes ? <Fact label="Notes">{asset.notes}</Fact> : null}
-      </Card>
+      </Section>
     );
 
   const stageCard = (
-    <Card testID="asset-stage-card">
-      <View style={styles.cardHead}>
-        <Heading level={2} variant="heading">
-          Stage
-        </Heading>
-        {can.moveStage(user?.role) && mode !== 'move' ? (
+    <Section
+      title="Stage"
+      action={
+        can.moveStage(user?.role) && mode !== 'move' ? (
           <Button label="Move to stage" variant="secondary" compact onPress={() => setMode('move')} testID="asset-move-stage" />
-        ) : null}
-      </View>
+        ) : null
+      }
+      testID="asset-stage-card"
+    >
       <Text variant="title" testID="asset-stage">
         {asset.stage}
       </Text>
@@ -115,63 +115,52 @@ function AssetDetail({ asset }: { asset: AssetDetail }) {
         )
       ) : null}
       <StageHistory asset={asset} />
-    </Card>
+    </Section>
   );
 
   const checklistCard = (
-    <Card testID="asset-checklist-summary">
-      <Heading level={2} variant="heading">
-        Checklist · {asset.stage}
-      </Heading>
+    <Section title={`Checklist · ${asset.stage}`} testID="asset-checklist-summary">
       <ProgressBar
         value={progressFraction(asset.checklist)}
         label="Checklist progress"
         caption={`${progressCaption(asset.checklist)} · ${asset.checklist.requiredDone} of ${asset.checklist.requiredTotal} required for the gate`}
       />
       <TextLink href={`/assets/${asset.id}/checklist`} label="Open the checklist" testID="asset-checklist-link" />
-    </Card>
+    </Section>
   );
 
   const photosCard = (
-    <Card testID="asset-photos">
-      <Heading level={2} variant="heading">
-        Photos
-      </Heading>
+    <Section title="Photos" testID="asset-photos">
       <PhotoCount count={asset.photos.length} />
       <PhotoGrid photos={asset.photos} label={asset.tag} testID="asset-photo-grid" />
       <PhotoPicker assetId={asset.id} testID="asset-add-photo" label="Add photo" />
-    </Card>
+    </Section>
   );
 
   const historyCard = (
-    <Card>
-      <Heading level={2} variant="heading">
-        History
-      </Heading>
+    <Section title="History">
       <AssetHistory assetId={asset.id} />
-    </Card>
+    </Section>
   );
 
   return (
     <Screen testID="asset-detail">
       <PageTitle title={asset.tag} />
       <TextLink href="/assets" label="Back to assets" testID="asset-back" />
-      <View style={styles.header}>
-        <View style={styles.headerText}>
-          <Text variant="caption" tone="muted">
-            {asset.program.code} · {ASSET_KIND_LABELS[asset.kind]}
-          </Text>
-          <Heading level={1} variant="display" testID="asset-tag" selectable>
-            {asset.tag}
-          </Heading>
-          <View style={styles.badges}>
+      <DetailHeader
+        eyebrow={`${asset.program.code} · ${ASSET_KIND_LABELS[asset.kind]}`}
+        title={asset.tag}
+        titleVariant="display"
+        titleTestID="asset-tag"
+        badges={
+          <>
             <StatusBadge status={asset.status} />
             <Badge label={asset.stage} tone="primary" />
             {asset.location ? <Badge label={asset.location} /> : null}
-          </View>
-        </View>
-        <TextLink href={`/assets/${asset.id}/label`} label="Label" testID="asset-label-link" />
-      </View>
+          </>
+        }
+        aside={<TextLink href={`/assets/${asset.id}/label`} label="Label" testID="asset-label-link" />}
+      />
       {asset.cleared ? null : <NotClearedCaution reason={asset.notClearedReason} />}
       {notice ? <Notice tone="success" message={notice} testID="asset-notice" /> : null}
       <AssetReadinessCard assetId={asset.id} />
@@ -179,17 +168,21 @@ function AssetDetail({ asset }: { asset: AssetDetail }) {
       <TextLink href={`/assets/${asset.id}/campaigns`} label="Test campaigns" testID="asset-campaigns-link" />
       <TextLink href={`/assets/${asset.id}/software`} label="Software" testID="asset-software-link" />
       {isWide ? (
-        <View style={styles.columns}>
-          <View style={styles.column}>
-            {overview}
-            {stageCard}
-          </View>
-          <View style={styles.column}>
-            {checklistCard}
-            {photosCard}
-            {historyCard}
-          </View>
-        </View>
+        <Columns
+          left={
+            <>
+              {overview}
+              {stageCard}
+            </>
+          }
+          right={
+            <>
+              {checklistCard}
+              {photosCard}
+              {historyCard}
+            </>
+          }
+        />
       ) : (
         <>
           {checklistCard}
@@ -234,64 +227,7 @@ function StageHistory({ asset }: { asset: AssetDetail }) {
   );
 }
 
-function Fact({ label, children }: { label: string; children: ReactNode }) {
-  return (
-    <View style={styles.fact}>
-      <Text variant="label" tone="muted" style={styles.factLabel}>
-        {label}
-      </Text>
-      <View style={styles.factValue}>{typeof children === 'string' ? <Text>{children}</Text> : children}</View>
-    </View>
-  );
-}
-
 const styles = StyleSheet.create({
-  header: {
-    flexDirection: 'row',
-    alignItems: 'flex-start',
-    justifyContent: 'space-between',
-    gap: spacing.md,
-  },
-  headerText: {
-    flex: 1,
-    minWidth: 0,
-    gap: spacing.xs,
-  },
-  badges: {
-    flexDirection: 'row',
-    flexWrap: 'wrap',
-    gap: spacing.xs,
-  },
-  columns: {
-    flexDirection: 'row',
-    alignItems: 'flex-start',
-    gap: spacing.xl,
-  },
-  column: {
-    flex: 1,
-    minWidth: 0,
-    gap: spacing.xl,
-  },
-  cardHead: {
-    flexDirection: 'row',
-    alignItems: 'center',
-    justifyContent: 'space-between',
-    gap: spacing.md,
-  },
-  fact: {
-    flexDirection: 'row',
-    gap: spacing.md,
-    alignItems: 'flex-start',
-  },
-  factLabel: {
-    width: 96,
-    paddingTop: spacing.xxs,
-  },
-  factValue: {
-    flex: 1,
-    minWidth: 0,
-    alignItems: 'flex-start',
-  },
   vin: {
     gap: spacing.xs,
   },

@@ -1,12 +1,13 @@
 import { useRouter } from 'expo-router';
 import { useCallback, useMemo, useState } from 'react';
-import { FlatList, StyleSheet, View } from 'react-native';
+import { StyleSheet, View } from 'react-native';
 import { Button } from '@/components/ui/button';
 import { PageTitle } from '@/components/ui/page-title';
-import { EmptyState, ErrorState, LoadingState, Notice } from '@/components/ui/states';
-import { Heading, Text } from '@/components/ui/text';
+import { ListTitle, PagedList } from '@/components/ui/paged-list';
+import { EmptyState, Notice } from '@/components/ui/states';
+import { Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
-import { colors, sizes, spacing } from '@/components/theme/tokens';
+import { spacing } from '@/components/theme/tokens';
 import { errorMessage } from '@/hooks/api/api-client';
 import { downloadWithToken } from '@/hooks/api/download';
 import { assetQueryString, useAssetListQuery, type AssetFilters as Filters, type AssetSort } from '@/hooks/queries/assets';
@@ -126,21 +127,11 @@ export function AssetListScreen({ params }: { params: AssetListParams }) {
   const header = (
     <View style={styles.header}>
       <PageTitle title="Assets" />
-      <View style={styles.titleRow}>
-        <View style={styles.titleText}>
-          <Heading level={1} variant="title">
-            Assets
-          </Heading>
-          {currentProgram ? (
-            <Text tone="muted">
-              {currentProgram.code} · {currentProgram.name}
-            </Text>
-          ) : null}
-        </View>
-        {can.createAsset(user?.role) ? (
-          <Button label="New asset" icon="plus" compact onPress={() => router.push('/assets/new')} testID="asset-new" />
-        ) : null}
-      </View>
+      <ListTitle
+        title="Assets"
+        subtitle={currentProgram ? `${currentProgram.code} · ${currentProgram.name}` : undefined}
+        action={can.createAsset(user?.role) ? <Button label="New asset" icon="plus" compact onPress={() => router.push('/assets/new')} testID="asset-new" /> : null}
+      />
       <TextField
         label="Search"
         value={search}
@@ -230,34 +221,6 @@ export function AssetListScreen({ params }: { params: AssetListParams }) {
     </View>
   );
 
-  const empty = !currentProgramId ? (
-    <EmptyState title="No program chosen" message="Join a program to see its assets." />
-  ) : list.isPending ? (
-    <LoadingState label="Loading assets…" />
-  ) : list.isError ? (
-    <ErrorState message={errorMessage(list.error)} onRetry={() => void list.refetch()} retrying={list.isFetching} />
-  ) : (
-    <EmptyState
-      title={filterCount > 0 || q ? 'No asset matches.' : 'No assets yet.'}
-      message={filterCount > 0 || q ? 'Change the search or the filters.' : can.createAsset(user?.role) ? 'Add the first one with "New asset".' : undefined}
-      testID="asset-list-empty"
-    />
-  );
-
-  const footer = list.hasNextPage ? (
-    <View style={styles.footer}>
-      <Button
-        label="Load more"
-        variant="secondary"
-        loading={list.isFetchingNextPage}
-        onPress={() => void list.fetchNextPage()}
-        testID="asset-load-more"
-      />
-    </View>
-  ) : list.isFetchNextPageError ? (
-    <Notice message={errorMessage(list.error)} />
-  ) : null;
-
   const renderItem = ({ item }: { item: AssetSummary }) =>
     isWide ? (
       <AssetTableRow asset={item} selected={selected.has(item.id)} onSelect={(on) => toggle(item.id, on)} />
@@ -266,67 +229,32 @@ export function AssetListScreen({ params }: { params: AssetListParams }) {
     );
 
   return (
-    <FlatList
-      data={items}
-      keyExtractor={(item) => item.id}
+    <PagedList
+      items={items}
+      query={list}
       renderItem={renderItem}
+      header={header}
+      noun="assets"
+      programChosen={Boolean(currentProgramId)}
+      empty={
+        <EmptyState
+          title={filterCount > 0 || q ? 'No asset matches.' : 'No assets yet.'}
+          message={filterCount > 0 || q ? 'Change the search or the filters.' : can.createAsset(user?.role) ? 'Add the first one with "New asset".' : undefined}
+          testID="asset-list-empty"
+        />
+      }
+      isWide={isWide}
       extraData={selected}
-      ListHeaderComponent={header}
-      ListEmptyComponent={empty}
-      ListFooterComponent={footer}
-      onEndReached={() => {
-        if (list.hasNextPage && !list.isFetchingNextPage && !list.isFetchNextPageError) void list.fetchNextPage();
-      }}
-      onEndReachedThreshold={0.5}
-      ItemSeparatorComponent={isWide ? undefined : Separator}
-      initialNumToRender={12}
-      windowSize={7}
-      keyboardShouldPersistTaps="handled"
-      style={styles.fill}
-      contentContainerStyle={[styles.content, isWide ? styles.contentWide : styles.contentPhone]}
       testID="asset-list"
+      loadMoreTestID="asset-load-more"
     />
   );
 }
 
-function Separator() {
-  return <View style={styles.separator} />;
-}
-
 const styles = StyleSheet.create({
-  fill: {
-    flex: 1,
-    backgroundColor: colors.bg,
-  },
-  content: {
-    width: '100%',
-    maxWidth: sizes.contentMaxWidth + spacing.xxl * 2,
-    alignSelf: 'center',
-    paddingBottom: spacing.xxxl,
-  },
-  contentPhone: {
-    paddingHorizontal: spacing.lg,
-    paddingTop: spacing.lg,
-  },
-  contentWide: {
-    paddingHorizontal: spacing.xxl,
-    paddingTop: spacing.xxl,
-  },
   header: {
     gap: spacing.lg,
     paddingBottom: spacing.sm,
-  },
-  titleRow: {
-    flexDirection: 'row',
-    alignItems: 'center',
-    justifyContent: 'space-between',
-    gap: spacing.md,
-    flexWrap: 'wrap',
-  },
-  titleText: {
-    flex: 1,
-    minWidth: 0,
-    gap: spacing.xxs,
   },
   filterToggle: {
     flexDirection: 'row',
@@ -335,12 +263,5 @@ const styles = StyleSheet.create({
     flexDirection: 'row',
     flexWrap: 'wrap',
     gap: spacing.sm,
-  },
-  footer: {
-    paddingVertical: spacing.lg,
-    alignItems: 'center',
-  },
-  separator: {
-    height: spacing.md,
   },
 });

@@ -2,11 +2,11 @@ import { useState, type ReactNode } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { PhotoCount, PhotoGrid } from '@/components/photos/photo-grid';
 import { Button } from '@/components/ui/button';
-import { Card } from '@/components/ui/card';
+import { Columns, DetailHeader, Fact as DetailFact, Section } from '@/components/ui/detail';
 import { PageTitle } from '@/components/ui/page-title';
 import { Screen } from '@/components/ui/screen';
 import { ErrorState, LoadingState, Notice } from '@/components/ui/states';
-import { Heading, Text } from '@/components/ui/text';
+import { Text } from '@/components/ui/text';
 import { TextLink } from '@/components/ui/text-link';
 import { formatDateTime } from '@/components/assets/asset-words';
 import { spacing } from '@/components/theme/tokens';
@@ -67,20 +67,20 @@ function FindingDetail({ finding }: { finding: Finding }) {
   const canEdit = Boolean(actor && member && mayEditDetails(findingState(finding), actor));
 
   const header = (
-    <View style={styles.header}>
-      <Text variant="caption" tone="muted">
-        Finding{finding.assetTag ? ` on ${finding.assetTag}` : ''}
-      </Text>
-      <Heading level={1} variant="title" testID="finding-title-text" selectable>
-        {finding.title}
-      </Heading>
-      <View style={styles.badges}>
-        <SeverityBadge severity={finding.severity} testID="finding-severity-badge" />
-        <FindingStatusBadge status={finding.status} />
-        {finding.overdue ? <OverdueBadge testID="finding-overdue" /> : null}
-      </View>
+    <DetailHeader
+      eyebrow={`Finding${finding.assetTag ? ` on ${finding.assetTag}` : ''}`}
+      title={finding.title}
+      titleTestID="finding-title-text"
+      badges={
+        <>
+          <SeverityBadge severity={finding.severity} testID="finding-severity-badge" />
+          <FindingStatusBadge status={finding.status} />
+          {finding.overdue ? <OverdueBadge testID="finding-overdue" /> : null}
+        </>
+      }
+    >
       {member && me ? <WatchButton finding={finding} me={me} online={online} /> : null}
-    </View>
+    </DetailHeader>
   );
 
   const details = editing ? (
@@ -93,15 +93,11 @@ function FindingDetail({ finding }: { finding: Finding }) {
       }}
     />
   ) : (
-    <Card testID="finding-details">
-      <View style={styles.cardHead}>
-        <Heading level={2} variant="heading">
-          Details
-        </Heading>
-        {canEdit ? (
-          <Button label="Edit" variant="secondary" compact disabled={!online} onPress={() => setEditing(true)} testID="finding-edit-open" />
-        ) : null}
-      </View>
+    <Section
+      title="Details"
+      action={canEdit ? <Button label="Edit" variant="secondary" compact disabled={!online} onPress={() => setEditing(true)} testID="finding-edit-open" /> : null}
+      testID="finding-details"
+    >
       <Fact label="Asset">
         {finding.assetId ? <TextLink href={`/assets/${finding.assetId}`} label={finding.assetTag ?? 'Open the asset'} testID="finding-asset-link" /> : '—'}
       </Fact>
@@ -122,38 +118,29 @@ function FindingDetail({ finding }: { finding: Finding }) {
         </Fact>
       ) : null}
       <Fact label="Description">{finding.description || 'No description.'}</Fact>
-    </Card>
+    </Section>
   );
 
   const workflow = <FindingWorkflow finding={finding} actor={actor} online={online} />;
 
   const photos = (
-    <Card testID="finding-photos-card">
-      <Heading level={2} variant="heading">
-        Photos
-      </Heading>
+    <Section title="Photos" testID="finding-photos-card">
       <PhotoCount count={finding.photos.length} />
       <PhotoGrid photos={finding.photos} label={finding.title} testID="finding-photo-grid" />
       {member ? <FindingPhotoAdder findingId={finding.id} online={online} /> : null}
-    </Card>
+    </Section>
   );
 
   const comments = (
-    <Card>
-      <Heading level={2} variant="heading">
-        Comments
-      </Heading>
+    <Section title="Comments">
       <FindingComments findingId={finding.id} canComment={member} online={online} />
-    </Card>
+    </Section>
   );
 
   const history = (
-    <Card>
-      <Heading level={2} variant="heading">
-        History
-      </Heading>
+    <Section title="History">
       <FindingHistory findingId={finding.id} />
-    </Card>
+    </Section>
   );
 
   return (
@@ -170,17 +157,21 @@ function FindingDetail({ finding }: { finding: Finding }) {
         <Notice tone="warning" message="No connection. Comments wait on this device; status changes and edits need the connection." testID="finding-offline" />
       ) : null}
       {isWide ? (
-        <View style={styles.columns}>
-          <View style={styles.column}>
-            {workflow}
-            {details}
-            {photos}
-          </View>
-          <View style={styles.column}>
-            {comments}
-            {history}
-          </View>
-        </View>
+        <Columns
+          left={
+            <>
+              {workflow}
+              {details}
+              {photos}
+            </>
+          }
+          right={
+            <>
+              {comments}
+              {history}
+            </>
+          }
+        />
       ) : (
         <>
           {workflow}
@@ -232,14 +223,12 @@ function WatchButton({ finding, me, online }: { finding: Finding; me: Person; on
   );
 }
 
+/** A finding's facts are worth copying: their text is selectable. */
 function Fact({ label, children }: { label: string; children: ReactNode }) {
   return (
-    <View style={styles.fact}>
-      <Text variant="label" tone="muted" style={styles.factLabel}>
-        {label}
-      </Text>
-      <View style={styles.factValue}>{typeof children === 'string' ? <Text selectable>{children}</Text> : children}</View>
-    </View>
+    <DetailFact label={label} selectable>
+      {children}
+    </DetailFact>
   );
 }
 
@@ -249,46 +238,8 @@ const styles = StyleSheet.create({
     flexWrap: 'wrap',
     gap: spacing.lg,
   },
-  header: {
-    gap: spacing.xs,
-  },
-  badges: {
-    flexDirection: 'row',
-    flexWrap: 'wrap',
-    gap: spacing.xs,
-  },
   watch: {
     gap: spacing.xs,
     paddingTop: spacing.xs,
-  },
-  cardHead: {
-    flexDirection: 'row',
-    alignItems: 'center',
-    justifyContent: 'space-between',
-    gap: spacing.md,
-  },
-  columns: {
-    flexDirection: 'row',
-    alignItems: 'flex-start',
-    gap: spacing.xl,
-  },
-  column: {
-    flex: 1,
-    minWidth: 0,
-    gap: spacing.xl,
-  },
-  fact: {
-    flexDirection: 'row',
-    gap: spacing.md,
-    alignItems: 'flex-start',
-  },
-  factLabel: {
-    width: 96,
-    paddingTop: spacing.xxs,
-  },
-  factValue: {
-    flex: 1,
-    minWidth: 0,
-    alignItems: 'flex-start',
   },
 });

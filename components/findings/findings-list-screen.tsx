@@ -1,14 +1,14 @@
 import { useRouter } from 'expo-router';
 import { useCallback, useMemo, useState } from 'react';
-import { FlatList, StyleSheet, View } from 'react-native';
+import { StyleSheet, View } from 'react-native';
 import { Button } from '@/components/ui/button';
 import { PageTitle } from '@/components/ui/page-title';
+import { ListTitle, PagedList } from '@/components/ui/paged-list';
 import { Select } from '@/components/ui/select';
-import { EmptyState, ErrorState, LoadingState, Notice } from '@/components/ui/states';
-import { Heading, Text } from '@/components/ui/text';
+import { EmptyState } from '@/components/ui/states';
+import { Text } from '@/components/ui/text';
 import { TextLink } from '@/components/ui/text-link';
-import { colors, sizes, spacing } from '@/components/theme/tokens';
-import { errorMessage } from '@/hooks/api/api-client';
+import { spacing } from '@/components/theme/tokens';
 import { useAssetQuery } from '@/hooks/queries/assets';
 import { useFindingListQuery, useProgramPeopleQuery, type FindingFilters as Filters, type FindingMine } from '@/hooks/queries/findings';
 import { useBreakpoints } from '@/hooks/use-breakpoints';
@@ -125,19 +125,11 @@ export function FindingsListScreen({ params }: { params: FindingListParams }) {
   const header = (
     <View style={styles.header}>
       <PageTitle title={assetTag ? `Findings on ${assetTag}` : 'Findings'} />
-      <View style={styles.titleRow}>
-        <View style={styles.titleText}>
-          <Heading level={1} variant="title">
-            {values.assetId ? `Findings on ${assetTag ?? 'this asset'}` : 'Findings'}
-          </Heading>
-          {currentProgram ? (
-            <Text tone="muted">
-              {currentProgram.code} · {currentProgram.name}
-            </Text>
-          ) : null}
-        </View>
-        {canFile ? <Button label="File a finding" icon="camera" compact onPress={() => router.push(newHref)} testID="finding-new" /> : null}
-      </View>
+      <ListTitle
+        title={values.assetId ? `Findings on ${assetTag ?? 'this asset'}` : 'Findings'}
+        subtitle={currentProgram ? `${currentProgram.code} · ${currentProgram.name}` : undefined}
+        action={canFile ? <Button label="File a finding" icon="camera" compact onPress={() => router.push(newHref)} testID="finding-new" /> : null}
+      />
       {values.assetId ? (
         <View style={styles.assetRow}>
           <TextLink href={`/assets/${values.assetId}`} label={`Open ${assetTag ?? 'the asset'}`} testID="findings-asset-link" />
@@ -202,105 +194,42 @@ export function FindingsListScreen({ params }: { params: FindingListParams }) {
     </View>
   );
 
-  const empty = !currentProgramId ? (
-    <EmptyState title="No program chosen" message="Join a program to see its findings." />
-  ) : list.isPending ? (
-    <LoadingState label="Loading findings…" />
-  ) : list.isError ? (
-    <ErrorState message={errorMessage(list.error)} onRetry={() => void list.refetch()} retrying={list.isFetching} />
-  ) : (
-    <EmptyState
-      title={filterCount > 0 || values.view !== 'all' ? 'No finding matches.' : 'No findings yet.'}
-      message={
-        values.view === 'mine'
-          ? 'Nothing is assigned to you with these filters.'
-          : values.view === 'watching'
-            ? 'You watch no finding with these filters. Press Watch on a finding to follow it.'
-            : filterCount > 0
-              ? 'Change or clear the filters.'
-              : undefined
-      }
-      testID="finding-list-empty"
-    />
-  );
-
-  const footer = list.hasNextPage ? (
-    <View style={styles.footer}>
-      <Button
-        label="Load more"
-        variant="secondary"
-        loading={list.isFetchingNextPage}
-        onPress={() => void list.fetchNextPage()}
-        testID="finding-load-more"
-      />
-    </View>
-  ) : list.isFetchNextPageError ? (
-    <Notice message={errorMessage(list.error)} />
-  ) : null;
-
   const renderItem = ({ item }: { item: Finding }) => (isWide ? <FindingTableRow finding={item} asOf={asOf} /> : <FindingCard finding={item} asOf={asOf} />);
 
   return (
-    <FlatList
-      data={items}
-      keyExtractor={(item) => item.id}
+    <PagedList
+      items={items}
+      query={list}
       renderItem={renderItem}
-      ListHeaderComponent={header}
-      ListEmptyComponent={empty}
-      ListFooterComponent={footer}
-      onEndReached={() => {
-        if (list.hasNextPage && !list.isFetchingNextPage && !list.isFetchNextPageError) void list.fetchNextPage();
-      }}
-      onEndReachedThreshold={0.5}
-      ItemSeparatorComponent={isWide ? undefined : Separator}
-      initialNumToRender={12}
-      windowSize={7}
-      keyboardShouldPersistTaps="handled"
-      style={styles.fill}
-      contentContainerStyle={[styles.content, isWide ? styles.contentWide : styles.contentPhone]}
+      header={header}
+      noun="findings"
+      programChosen={Boolean(currentProgramId)}
+      empty={
+        <EmptyState
+          title={filterCount > 0 || values.view !== 'all' ? 'No finding matches.' : 'No findings yet.'}
+          message={
+            values.view === 'mine'
+              ? 'Nothing is assigned to you with these filters.'
+              : values.view === 'watching'
+                ? 'You watch no finding with these filters. Press Watch on a finding to follow it.'
+                : filterCount > 0
+                  ? 'Change or clear the filters.'
+                  : undefined
+          }
+          testID="finding-list-empty"
+        />
+      }
+      isWide={isWide}
       testID="findings-list"
+      loadMoreTestID="finding-load-more"
     />
   );
 }
 
-function Separator() {
-  return <View style={styles.separator} />;
-}
-
 const styles = StyleSheet.create({
-  fill: {
-    flex: 1,
-    backgroundColor: colors.bg,
-  },
-  content: {
-    width: '100%',
-    maxWidth: sizes.contentMaxWidth + spacing.xxl * 2,
-    alignSelf: 'center',
-    paddingBottom: spacing.xxxl,
-  },
-  contentPhone: {
-    paddingHorizontal: spacing.lg,
-    paddingTop: spacing.lg,
-  },
-  contentWide: {
-    paddingHorizontal: spacing.xxl,
-    paddingTop: spacing.xxl,
-  },
   header: {
     gap: spacing.lg,
     paddingBottom: spacing.sm,
-  },
-  titleRow: {
-    flexDirection: 'row',
-    alignItems: 'center',
-    justifyContent: 'space-between',
-    gap: spacing.md,
-    flexWrap: 'wrap',
-  },
-  titleText: {
-    flex: 1,
-    minWidth: 0,
-    gap: spacing.xxs,
   },
   assetRow: {
     flexDirection: 'row',
@@ -313,12 +242,5 @@ const styles = StyleSheet.create({
   },
   toggleRow: {
     flexDirection: 'row',
-  },
-  footer: {
-    paddingVertical: spacing.lg,
-    alignItems: 'center',
-  },
-  separator: {
-    height: spacing.md,
   },
 });

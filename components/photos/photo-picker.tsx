@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
 import { Image, StyleSheet, View } from 'react-native';
 import { Button } from '@/components/ui/button';
 import { ProgressBar } from '@/components/ui/progress-bar';
@@ -14,14 +14,47 @@ export type PhotoPickerProps = {
   /** The camera button's id; the library button gets `<testID>-library`. */
   testID?: string;
   label?: string;
+  /** The camera button's label once a photo was sent (with `keepSent`). */
+  againLabel?: string;
   compact?: boolean;
+  /** A label above the buttons. */
+  heading?: string;
+  /** What one photo is called ("Walk-around photo"): its preview's alt text and its Remove button say "<name> <n>". */
+  name?: string;
+  /** Prefix of each upload row's ids: `-retry`, `-discard`, `-error`, `-progress`. */
+  rowTestID?: string;
+  /**
+   * Sent photos stay listed ("Photo 1 sent." and Remove) instead of joining the asset's photos,
+   * for a form that links them by id; `onChange` hears their ids and whether any is on its way.
+   */
+  keepSent?: boolean;
+  onChange?: (state: { photoIds: string[]; busy: boolean }) => void;
 };
 
 /** "Take photo" and "Choose photo", then each upload with its progress bar, or its error and Retry. */
-export function PhotoPicker({ assetId, checklistItemId, testID = 'add-photo', label = 'Take photo', compact = true }: PhotoPickerProps) {
-  const { jobs, add, retry, dismiss } = usePhotoUpload({ assetId, checklistItemId });
+export function PhotoPicker({
+  assetId,
+  checklistItemId,
+  testID = 'add-photo',
+  label = 'Take photo',
+  againLabel = label,
+  compact = true,
+  heading,
+  name,
+  rowTestID = 'photo',
+  keepSent = false,
+  onChange,
+}: PhotoPickerProps) {
+  const { jobs, add, retry, dismiss } = usePhotoUpload({ assetId, checklistItemId, keepSent });
   const [preparing, setPreparing] = useState(false);
   const [pickError, setPickError] = useState<string | null>(null);
+
+  useEffect(() => {
+    onChange?.({
+      photoIds: jobs.flatMap((job) => (job.saved ? [job.saved.id] : [])),
+      busy: preparing || jobs.some((job) => job.status === 'uploading'),
+    });
+  }, [jobs, preparing, onChange]);
 
   const start = async (source: PickSource) => {
     setPickError(null);
@@ -34,15 +67,22 @@ export function PhotoPicker({ assetId, checklistItemId, testID = 'add-photo', la
     }
     if (!asset) return;
     setPreparing(true);
-    const prepared = await preparePhoto(asset);
-    setPreparing(false);
-    void add(prepared);
+    try {
+      void add(await preparePhoto(asset));
+    } catch {
+      setPickError('The photo could not be read. Try another one.');
+    } finally {
+      setPreparing(false);
+    }
   };
+
+  const sent = jobs.some((job) => job.saved);
 
   return (
     <View style={styles.wrap}>
+      {heading ? <Text variant="label">{heading}</Text> : null}
       <View style={styles.buttons}>
-        <Button label={label} icon="camera" variant="secondary" compact={compact} loading={preparing} onPress={() => void start('camera')} testID={testID} />
+        <Button label={keepSent && sent ? againLabel : label} icon="camera" variant="secondary" compact={compact} loading={preparing} onPress={() => void start('camera')} testID={testID} />
         <Button
           label="Choose photo"
           icon="image"
@@ -59,34 +99,62 @@ export function PhotoPicker({ assetId, checklistItemId, testID = 'add-photo', la
         </Text>
       ) : null}
       {pickError ? <Notice message={pickError} /> : null}
-      {jobs.map((job) => (
-        <UploadRow key={job.key} job={job} onRetry={() => retry(job.key)} onDismiss={() => dismiss(job.key)} />
+      {jobs.map((job, index) => (
+        <UploadRow
+          key={job.key}
+          job={job}
+          name={name ? `${name} ${index + 1}` : undefined}
+          number={index + 1}
+          kept={keepSent}
+          testID={rowTestID}
+          onRetry={() => retry(job.key)}
+          onDismiss={() => dismiss(job.key)}
+        />
       ))}
     </View>
   );
 }
 
-function UploadRow({ job, onRetry, onDismiss }: { job: UploadJob; onRetry: () => void; onDismiss: () => void }) {
+type UploadRowProps = {
+  job: UploadJob;
+  /** "Walk-around photo 2"; without it the preview is decorative. */
+  name?: string;
+  number: number;
+  /** Kept once sent (`keepSent`): the record of what goes with the form, with a larger preview. */
+  kept: boolean;
+  testID: string;
+  onRetry: () => void;
+  onDismiss: () => void;
+};
+
+function UploadRow({ job, name, number, kept, testID, onRetry, onDismiss }: UploadRowProps) {
   return (
     <View style={styles.job}>
-      <Image source={{ uri: job.photo.previewUri }} style={styles.preview} alt="" accessibilityIgnoresInvertColors />
+      <Image source={{ uri: job.photo.previewUri }} style={[styles.preview, kept && styles.previewLarge]} alt={name ?? ''} accessibilityIgnoresInvertColors />
       <View style={styles.jobBody}>
         {job.status === 'failed' ? (
           <>
-            <View accessibilityRole="alert" testID="photo-error">
+            <View accessibilityRole="alert" testID={`${testID}-error`}>
               <Text tone="danger">{job.error ?? 'The photo was not sent.'}</Text>
             </View>
             <View style={styles.buttons}>
-              <Button label="Retry" icon="refresh" compact onPress={onRetry} testID="photo-retry" />
-              <Button label="Discard" variant="ghost" compact onPress={onDismiss} testID="photo-discard" />
+              <Button label="Retry" icon="refresh" compact onPress={onRetry} testID={`${testID}-retry`} />
+              <Button label="Discard" variant="ghost" compact onPress={onDismiss} testID={`${testID}-discard`} />
             </View>
           </>
+        ) : kept && job.status === 'done' ? (
+          <View style={styles.sentRow}>
+            <Text variant="caption" tone="success" style={styles.flex}>
+              Photo {number} sent.
+            </Text>
+            <Button label="Remove" variant="ghost" compact accessibilityLabel={name ? `Remove ${name.toLowerCase()}` : undefined} onPress={onDismiss} />
+          </View>
         ) : (
           <ProgressBar
             value={job.progress}
             label="Photo upload"
             caption={job.status === 'done' ? 'Sent.' : `Sending… ${Math.round(job.progress * 100)}%`}
-            testID="photo-progress"
+            testID={`${testID}-progress`}
           />
         )}
       </View>
@@ -95,6 +163,7 @@ function UploadRow({ job, onRetry, onDismiss }: { job: UploadJob; onRetry: () =>
 }
 
 const PREVIEW = 56;
+const PREVIEW_LARGE = 72;
 
 const styles = StyleSheet.create({
   wrap: {
@@ -122,9 +191,21 @@ const styles = StyleSheet.create({
     borderRadius: radii.sm,
     backgroundColor: colors.surfaceMuted,
   },
+  previewLarge: {
+    width: PREVIEW_LARGE,
+    height: PREVIEW_LARGE,
+  },
   jobBody: {
     flex: 1,
     minWidth: 0,
     gap: spacing.xs,
+  },
+  sentRow: {
+    flexDirection: 'row',
+    alignItems: 'center',
+    gap: spacing.sm,
+  },
+  flex: {
+    flex: 1,
   },
 });

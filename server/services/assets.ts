@@ -15,10 +15,10 @@ import {
 } from '../../shared/schemas/assets';
 import { Asset, Photo, Program, Stage, StageVisit } from '../db/models';
 import type { Deps } from '../deps';
-import { AppError, conflict, notFound } from '../lib/app-error';
+import { AppError, conflict, fieldError, notFound } from '../lib/app-error';
 import { toCsv } from '../lib/csv';
 import type { SessionUser } from '../middleware/auth';
-import { recordHistory } from './history';
+import { historyOf, recordHistory } from './history';
 import { photoDtos, signedPhotoUrl } from './photos';
 import { assertMember } from './stages';
 
@@ -27,9 +27,6 @@ type CreateAsset = z.output<typeof CreateAssetSchema>;
 type UpdateAsset = z.output<typeof UpdateAssetSchema>;
 type MoveStage = z.output<typeof MoveStageSchema>;
 type Sort = (typeof ASSET_SORTS)[number];
-
-const fieldError = (field: string, message: string, code = 'request/invalid', status = 400) =>
-  new AppError(status, code, `${field}: ${message}`, { fields: { [field]: message } });
 
 // ---- The summary query (list, export and detail share it) ---------------------------------
 
@@ -484,44 +481,15 @@ export async function moveAssetStage(deps: Deps, user: SessionUser, id: string, 
 
 // ---- History ------------------------------------------------------------------------------
 
-export const HISTORY_LIMIT = 500;
-
+/** The asset's own entries and those of its checklist items, findings and photos. */
 export async function assetHistory(deps: Deps, user: SessionUser, id: string): Promise<{ entries: HistoryEntryDto[] }> {
   const asset = await visibleAsset(user, id);
-  const rows = await deps.sequelize.query<{
-    id: number;
-    at: Date;
-    actor_id: string | null;
-    actor_name: string | null;
-    action: string;
-    entity_type: string;
-    entity_id: string;
-    before: unknown;
-    after: unknown;
-    note: string | null;
-  }>(
-    `SELECT h.id, h.at, h.actor_id, u.name AS actor_name, h.action, h.entity_type, h.entity_id, h.before, h.after, h.note
-       FROM history_entries h LEFT JOIN users u ON u.id = h.actor_id
-      WHERE h.program_id = $2 AND (
-              (h.entity_type = 'asset' AND h.entity_id = $1)
-           OR (h.entity_type = 'checklist-item' AND h.entity_id IN (SELECT id::text FROM checklist_items WHERE asset_id = $1::uuid))
-           OR (h.entity_type = 'finding' AND h.entity_id IN (SELECT id::text FROM findings WHERE asset_id = $1::uuid))
-           OR (h.entity_type = 'photo' AND h.entity_id IN (SELECT id::text FROM photos WHERE asset_id = $1::uuid)))
-      ORDER BY h.at DESC, h.id DESC
-      LIMIT ${HISTORY_LIMIT}`,
-    { bind: [asset.id, asset.programId], type: QueryTypes.SELECT },
-  );
-  return {
-    entries: rows.map((r) => ({
-      id: String(r.id),
-      at: r.at.toISOString(),
-      actor: r.actor_id ? { id: r.actor_id, name: r.actor_name ?? '' } : null,
-      action: r.action,
-      entityType: r.entity_type,
-      entityId: r.entity_id,
-      before: r.before ?? null,
-      after: r.after ?? null,
-      note: r.note,
-    })),
-  };
+  return historyOf(deps, 'asset', asset.id, {
+    programId: asset.programId,
+    related: [
+      { entityType: 'checklist-item', ids: 'SELECT id::text FROM checklist_items WHERE asset_id = $1::uuid' },
+      { entityType: 'finding', ids: 'SELECT id::text FROM findings WHERE asset_id = $1::uuid' },
+      { entityType: 'photo', ids: 'SELECT id::text FROM photos WHERE asset_id = $1::uuid' },
+    ],
+  });
 }

@@ -14,7 +14,7 @@ import {
 } from '../../shared/schemas/validation';
 import { Campaign, CampaignStep, Stage } from '../db/models';
 import type { Deps } from '../deps';
-import { AppError, conflict, notFound } from '../lib/app-error';
+import { AppError, conflict, fieldError, notFound } from '../lib/app-error';
 import type { SessionUser } from '../middleware/auth';
 import { visibleAsset } from './assets';
 import { parseCampaignLog } from './campaign-log';
@@ -27,9 +27,6 @@ type UpdateCampaign = z.output<typeof UpdateCampaignSchema>;
 type ProgressInput = z.output<typeof CampaignProgressSchema>;
 type LogInput = z.output<typeof CampaignLogSchema>;
 type StepInput = NonNullable<UpdateCampaign['steps']>[number];
-
-const fieldError = (field: string, message: string, code = 'request/invalid', status = 400) =>
-  new AppError(status, code, `${field}: ${message}`, { fields: { [field]: message } });
 
 // ---- Reading ------------------------------------------------------------------------------
 

@@ -1,5 +1,5 @@
 import crypto from 'node:crypto';
-import { QueryTypes, UniqueConstraintError } from 'sequelize';
+import { UniqueConstraintError } from 'sequelize';
 import type { Photo as PhotoDto } from '../../shared/schemas/assets';
 import type { Comment, CreateComment } from '../../shared/schemas/findings';
 import { FindingComment, Photo } from '../db/models';
@@ -7,7 +7,7 @@ import type { Deps } from '../deps';
 import { AppError } from '../lib/app-error';
 import type { SessionUser } from '../middleware/auth';
 import { peopleByIds, visibleFinding } from './findings';
-import { recordHistory } from './history';
+import { historyOf, recordHistory } from './history';
 import { makeThumbnail, probeImage, toPhotoDto } from './photos';
 
 // ---- Comments -----------------------------------------------------------------------------
@@ -147,40 +147,7 @@ export async function addFindingPhoto(
 
 // ---- History ------------------------------------------------------------------------------
 
-export const FINDING_HISTORY_LIMIT = 500;
-
 export async function findingHistory(deps: Deps, user: SessionUser, id: string) {
   const finding = await visibleFinding(user, id);
-  const rows = await deps.sequelize.query<{
-    id: number;
-    at: Date;
-    actor_id: string | null;
-    actor_name: string | null;
-    action: string;
-    entity_type: string;
-    entity_id: string;
-    before: unknown;
-    after: unknown;
-    note: string | null;
-  }>(
-    `SELECT h.id, h.at, h.actor_id, u.name AS actor_name, h.action, h.entity_type, h.entity_id, h.before, h.after, h.note
-       FROM history_entries h LEFT JOIN users u ON u.id = h.actor_id
-      WHERE h.program_id = $2 AND h.entity_type = 'finding' AND h.entity_id = $1
-      ORDER BY h.at DESC, h.id DESC
-      LIMIT ${FINDING_HISTORY_LIMIT}`,
-    { bind: [finding.id, finding.programId], type: QueryTypes.SELECT },
-  );
-  return {
-    entries: rows.map((r) => ({
-      id: String(r.id),
-      at: r.at.toISOString(),
-      actor: r.actor_id ? { id: r.actor_id, name: r.actor_name ?? '' } : null,
-      action: r.action,
-      entityType: r.entity_type,
-      entityId: r.entity_id,
-      before: r.before ?? null,
-      after: r.after ?? null,
-      note: r.note,
-    })),
-  };
+  return historyOf(deps, 'finding', finding.id, { programId: finding.programId });
 }

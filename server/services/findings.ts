@@ -26,7 +26,7 @@ import {
 } from '../../shared/schemas/findings';
 import { Asset, ChecklistItem, Finding, FindingWatcher, Photo, User } from '../db/models';
 import type { Deps } from '../deps';
-import { AppError, conflict, notFound } from '../lib/app-error';
+import { AppError, conflict, fieldError, notFound } from '../lib/app-error';
 import type { SessionUser } from '../middleware/auth';
 import { notifyAssigned, notifyStatusChange } from './finding-mail';
 import { recordHistory } from './history';
@@ -36,9 +36,6 @@ type ListQuery = z.output<typeof FindingListQuerySchema>;
 type CreateFinding = z.output<typeof CreateFindingSchema>;
 type UpdateFinding = z.output<typeof UpdateFindingSchema>;
 type Sort = (typeof FINDING_SORTS)[number];
-
-export const fieldError = (field: string, message: string, code = 'request/invalid', status = 400) =>
-  new AppError(status, code, `${field}: ${message}`, { fields: { [field]: message } });
 
 const CLOSED_SQL = CLOSED_FINDING_STATUSES.map((s) => `'${s}'`).join(', ');
 

@@ -32,11 +32,11 @@ import {
 } from '../../shared/schemas/fleet';
 import { Photo } from '../db/models';
 import type { Deps } from '../deps';
-import { AppError, conflict, notFound } from '../lib/app-error';
+import { AppError, conflict, fieldError, notFound } from '../lib/app-error';
 import type { SessionUser } from '../middleware/auth';
 import { createFinding } from './findings';
 import { notifyDriver } from './fleet-mail';
-import { recordHistory } from './history';
+import { historyOf, recordHistory } from './history';
 import { photoDtos } from './photos';
 import { assertMember } from './stages';
 
@@ -55,9 +55,6 @@ export const FLEET_MANAGERS = ['coordinator', 'lead'] as const satisfies readonl
 export const EARLY_CHECKOUT_HOURS = 12;
 
 const DAY_MS = 24 * 3600_000;
-
-export const fieldError = (field: string, message: string, code = 'request/invalid', status = 400) =>
-  new AppError(status, code, `${field}: ${message}`, { fields: { [field]: message } });
 
 export function refused(reasons: RefusalReason[]): AppError {
   return new AppError(422, 'assignment/refused', `This assignment cannot be booked. ${reasons.map((r) => r.message).join(' ')}`, { reasons });
@@ -792,42 +789,9 @@ export async function checkIn(deps: Deps, user: SessionUser, id: string, input: 
   return (await assignmentDtos(deps, [done.a.id], undefined, asOf))[0];
 }
 
-export const ASSIGNMENT_HISTORY_LIMIT = 500;
-
 export async function assignmentHistory(deps: Deps, user: SessionUser, id: string) {
   const a = await visibleAssignment(deps, user, id);
-  const rows = await deps.sequelize.query<{
-    id: number;
-    at: Date;
-    actor_id: string | null;
-    actor_name: string | null;
-    action: string;
-    entity_type: string;
-    entity_id: string;
-    before: unknown;
-    after: unknown;
-    note: string | null;
-  }>(
-    `SELECT h.id, h.at, h.actor_id, u.name AS actor_name, h.action, h.entity_type, h.entity_id, h.before, h.after, h.note
-       FROM history_entries h LEFT JOIN users u ON u.id = h.actor_id
-      WHERE h.program_id = $2 AND h.entity_type = 'assignment' AND h.entity_id = $1
-      ORDER BY h.at DESC, h.id DESC
-      LIMIT ${ASSIGNMENT_HISTORY_LIMIT}`,
-    { bind: [a.id, a.program_id], type: QueryTypes.SELECT },
-  );
-  return {
-    entries: rows.map((r) => ({
-      id: String(r.id),
-      at: r.at.toISOString(),
-      actor: r.actor_id ? { id: r.actor_id, name: r.actor_name ?? '' } : null,
-      action: r.action,
-      entityType: r.entity_type,
-      entityId: r.entity_id,
-      before: r.before ?? null,
-      after: r.after ?? null,
-      note: r.note,
-    })),
-  };
+  return historyOf(deps, 'assignment', a.id, { programId: a.program_id });
 }
 
 // ---- Drivers ------------------------------------------------------------------------------

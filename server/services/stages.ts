@@ -16,7 +16,7 @@ import {
 } from '../../shared/schemas/assets';
 import { Stage, TemplateItem } from '../db/models';
 import type { Deps } from '../deps';
-import { AppError, conflict, notFound } from '../lib/app-error';
+import { AppError, conflict, fieldError, notFound } from '../lib/app-error';
 import type { SessionUser } from '../middleware/auth';
 import { recordHistory } from './history';
 
@@ -25,9 +25,6 @@ type UpdateStage = z.output<typeof UpdateStageSchema>;
 type ReorderStages = z.output<typeof ReorderStagesSchema>;
 type TemplateItemInput = z.output<typeof TemplateItemInputSchema>;
 type UpdateTemplateItem = z.output<typeof UpdateTemplateItemSchema>;
-
-const fieldError = (field: string, message: string, code = 'request/invalid', status = 400) =>
-  new AppError(status, code, `${field}: ${message}`, { fields: { [field]: message } });
 
 export function assertMember(user: SessionUser, programId: string, what: string) {
   if (!user.programIds.includes(programId)) throw notFound(what);

@@ -17,7 +17,7 @@ import {
 } from '../../shared/schemas/validation';
 import { Asset, Finding, Stage, TestAllocation, ValidationTest } from '../db/models';
 import type { Deps } from '../deps';
-import { AppError, conflict, notFound } from '../lib/app-error';
+import { AppError, conflict, fieldError, notFound } from '../lib/app-error';
 import type { SessionUser } from '../middleware/auth';
 import { recordHistory } from './history';
 import { makeThumbnail, probeImage, signedPhotoUrl } from './photos';
@@ -28,9 +28,6 @@ type CreateTest = z.output<typeof CreateValidationTestSchema>;
 type UpdateTest = z.output<typeof UpdateValidationTestSchema>;
 type CreateAllocation = z.output<typeof CreateAllocationSchema>;
 type UpdateAllocation = z.output<typeof UpdateAllocationSchema>;
-
-const fieldError = (field: string, message: string, code = 'request/invalid', status = 400) =>
-  new AppError(status, code, `${field}: ${message}`, { fields: { [field]: message } });
 
 /** A failed result opens a finding of this severity: it stops a test or the gate (PRODUCT.md section 3C). */
 export const FAILED_TEST_SEVERITY = 'blocking' as const;
