@@ -5,15 +5,15 @@ import { Card } from '@/components/ui/card';
 import { Screen } from '@/components/ui/screen';
 import { EmptyState, ErrorState, LoadingState, Notice } from '@/components/ui/states';
 import { Heading, Text } from '@/components/ui/text';
-import { TextField } from '@/components/ui/text-field';
 import { TextLink } from '@/components/ui/text-link';
 import { PageTitle } from '@/components/ui/page-title';
 import { colors, spacing } from '@/components/theme/tokens';
-import { errorMessage, fieldErrors } from '@/hooks/api/api-client';
+import { errorMessage } from '@/hooks/api/api-client';
 import { softwareConflictCurrent, useAssetSoftwareQuery, useRecordFlashMutation } from '@/hooks/queries/software';
 import { useBreakpoints } from '@/hooks/use-breakpoints';
 import { useSession } from '@/hooks/use-session';
-import { RecordFlashSchema, type AssetSoftware, type EcuSoftware } from '@/shared/schemas/software';
+import type { AssetSoftware, EcuSoftware } from '@/shared/schemas/software';
+import { FlashForm, type FlashValues } from './flash-form';
 import { formatDateTime, softwareCan } from './software-words';
 import { StatusTag } from './status-tag';
 
@@ -115,13 +115,21 @@ function EcuCard({ assetId, item, canFlash, wide }: { assetId: string; item: Ecu
       {item.history.length ? (
         <View style={styles.history} accessibilityLabel={`Flashes of ${code}`}>
           <Text variant="label">History</Text>
-          {history.map((flash) => (
-            <Text key={flash.id} variant="caption">
-              {flash.softwareVersion} · {formatDateTime(flash.flashedAt)}
-              {flash.flashedBy ? ` · ${flash.flashedBy.name}` : ''} · {flash.source === 'import' ? 'import' : 'by hand'}
-              {flash.note ? ` · ${flash.note}` : ''}
-            </Text>
-          ))}
+          {history.map((flash, i) => {
+            // Hardware number and serial show where they changed from the flash before (a part swapped).
+            const older = item.history[i + 1];
+            const hardwareChanged = older && flash.hardwareNumber && flash.hardwareNumber !== older.hardwareNumber;
+            const serialChanged = older && flash.ecuSerial && flash.ecuSerial !== older.ecuSerial;
+            return (
+              <Text key={flash.id} variant="caption">
+                {flash.softwareVersion} · {formatDateTime(flash.flashedAt)}
+                {flash.flashedBy ? ` · ${flash.flashedBy.name}` : ''} · {flash.source === 'import' ? 'import' : 'by hand'}
+                {hardwareChanged ? ` · HW now ${flash.hardwareNumber}` : ''}
+                {serialChanged ? ` · serial now ${flash.ecuSerial}` : ''}
+                {flash.note ? ` · ${flash.note}` : ''}
+              </Text>
+            );
+          })}
           {item.history.length > 3 ? (
             <Button
               label={showAll ? 'Show fewer' : `Show all ${item.history.length} flashes`}
@@ -134,7 +142,7 @@ function EcuCard({ assetId, item, canFlash, wide }: { assetId: string; item: Ecu
       ) : null}
       {canFlash ? (
         open ? (
-          <FlashForm assetId={assetId} item={item} onClose={() => setOpen(false)} />
+          <RecordFlash assetId={assetId} item={item} onClose={() => setOpen(false)} />
         ) : (
           <Button
             label="Record a flash"
@@ -150,66 +158,39 @@ function EcuCard({ assetId, item, canFlash, wide }: { assetId: string; item: Ecu
   );
 }
 
-function FlashForm({ assetId, item, onClose }: { assetId: string; item: EcuSoftware; onClose: () => void }) {
+function RecordFlash({ assetId, item, onClose }: { assetId: string; item: EcuSoftware; onClose: () => void }) {
   const code = item.ecu.code;
-  const [version, setVersion] = useState(item.target ?? '');
-  const [softwareNumber, setSoftwareNumber] = useState('');
-  const [note, setNote] = useState('');
-  const [error, setError] = useState<string | null>(null);
   const [conflict, setConflict] = useState<string | null>(null);
   const record = useRecordFlashMutation(assetId);
 
-  const submit = () => {
-    setError(null);
+  const send = async (values: FlashValues) => {
     setConflict(null);
-    const parsed = RecordFlashSchema.safeParse({
-      softwareVersion: version,
-      softwareNumber: softwareNumber.trim() || undefined,
-      note,
-      version: item.installed?.version,
-    });
-    if (!parsed.success) {
-      setError(parsed.error.issues[0]?.message ?? 'Check the version.');
-      return;
+    try {
+      await record.mutateAsync({ ecuId: item.ecu.id, ...values, version: item.installed?.version });
+      onClose();
+    } catch (failure) {
+      const current = softwareConflictCurrent(failure);
+      if (!current) throw failure;
+      const now = current.ecus.find((e) => e.ecu.id === item.ecu.id)?.installed;
+      setConflict(
+        `${errorMessage(failure)} ${code} now shows ${now?.softwareVersion ?? 'nothing'}${now?.flashedBy ? `, recorded by ${now.flashedBy.name}` : ''}. Check it, then record again if it is still needed.`,
+      );
     }
-    record.mutate(
-      { ecuId: item.ecu.id, softwareVersion: version, softwareNumber: softwareNumber.trim() || undefined, note, version: item.installed?.version },
-      {
-        onSuccess: onClose,
-        onError: (failure) => {
-          const current = softwareConflictCurrent(failure);
-          if (current) {
-            const now = current.ecus.find((e) => e.ecu.id === item.ecu.id)?.installed;
-            setConflict(
-              `${errorMessage(failure)} ${code} now shows ${now?.softwareVersion ?? 'nothing'}${now?.flashedBy ? `, recorded by ${now.flashedBy.name}` : ''}. Check it, then record again if it is still needed.`,
-            );
-            return;
-          }
-          const fields = fieldErrors(failure);
-          setError(fields.softwareVersion ?? errorMessage(failure));
-        },
-      },
-    );
   };
 
   return (
-    <View style={styles.form} testID={`asset-ecu-${code}-form`}>
-      <TextField
-        label={`Version flashed on ${code}`}
-        value={version}
-        onChangeText={setVersion}
-        autoCapitalize="none"
-        autoCorrect={false}
-        error={error ?? undefined}
-        testID={`asset-ecu-${code}-version`}
-      />
-      <TextField label="Software number (F188), if known" value={softwareNumber} onChangeText={setSoftwareNumber} autoCapitalize="characters" autoCorrect={false} />
-      <TextField label="Note" value={note} onChangeText={setNote} />
+    <View style={styles.form}>
       {conflict ? <Notice tone="warning" message={conflict} testID={`asset-ecu-${code}-conflict`} /> : null}
-      <View style={styles.actions}>
-        <Button label="Record the flash" compact loading={record.isPending} onPress={submit} testID={`asset-ecu-${code}-save`} />
-        <Button label="Cancel" variant="ghost" compact onPress={onClose} />
-      </View>
+      <FlashForm
+        // A newer record (someone else's flash) starts the form again from it.
+        key={item.installed?.version ?? 'none'}
+        ecuCode={code}
+        version={item.target ?? item.installed?.softwareVersion ?? ''}
+        installed={item.installed}
+        testID={`asset-ecu-${code}-form`}
+        onSubmit={send}
+        onCancel={onClose}
+      />
     </View>
   );
 }

@@ -6,13 +6,14 @@ import { spacing } from '@/components/theme/tokens';
 import { useSession } from '@/hooks/use-session';
 import { softwareCan } from './software-words';
 
-type Place = 'matrix' | 'import' | 'reflash' | 'baselines';
+type Place = 'matrix' | 'import' | 'reflash' | 'baselines' | 'ecus';
 
 const PLACES: ReadonlyArray<{ place: Place; href: string; label: string }> = [
   { place: 'matrix', href: '/software', label: 'Matrix' },
   { place: 'import', href: '/software/import', label: 'Import a read-out' },
   { place: 'reflash', href: '/software/reflash', label: 'Reflash list' },
   { place: 'baselines', href: '/software/baselines', label: 'Baselines' },
+  { place: 'ecus', href: '/software/ecus', label: 'ECU catalogue' },
 ];
 
 /** Title of a software page and links to its sibling pages. */

@@ -44,5 +44,6 @@ export function formatDay(iso: string): string {
 /** Who may do what (the server checks the same: server/routes/software.ts). */
 export const softwareCan = {
   editBaselines: (role: string | null | undefined) => role === 'engineer' || role === 'lead',
+  editCatalogue: (role: string | null | undefined) => role === 'engineer' || role === 'lead',
   recordFlash: (role: string | null | undefined) => role === 'technician' || role === 'engineer' || role === 'lead',
 };

@@ -9,6 +9,7 @@ import {
   BaselineListSchema,
   BaselineSchema,
   EcuListSchema,
+  EcuSchema,
   IMPORT_FILE_FIELD,
   ImportPreviewSchema,
   ImportResultSchema,
@@ -16,11 +17,16 @@ import {
   ReflashListSchema,
   SoftwareMatrixSchema,
   type AssetSoftware,
+  type Baseline,
   type ConformanceStatus,
+  type CreateBaseline,
+  type CreateEcu,
+  type Ecu,
   type ImportRow,
   type RecordFlash,
   type ReflashDone,
   type UpdateBaseline,
+  type UpdateEcu,
 } from '@/shared/schemas/software';
 import { z } from 'zod';
 
@@ -31,7 +37,15 @@ export type MatrixFilters = {
   ecuId?: string;
 };
 
-export type ReflashFilters = { programId: string; stageId?: string; ecuId?: string };
+export type ReflashFilters = {
+  programId: string;
+  stageId?: string;
+  ecuId?: string;
+  /** YYYY-MM-DD: only assets with a planned use starting by the end of that day. */
+  before?: string;
+  /** Only assets allocated to this validation test. */
+  testId?: string;
+};
 
 export const MATRIX_PAGE_SIZE = 50;
 
@@ -110,6 +124,10 @@ export function useReflashDoneMutation() {
     onSuccess: (software) => {
       queryClient.setQueryData(softwareKeys.asset(software.assetId), software);
       return invalidateSoftware(queryClient);
+    },
+    onError: (error) => {
+      // Someone recorded a flash first: the list and the asset move to what is recorded now.
+      if (softwareConflictCurrent(error)) void invalidateSoftware(queryClient);
     },
   });
 }
@@ -200,6 +218,43 @@ export function useEcusQuery(programId: string | null) {
   });
 }
 
+/** The server's copy of an ECU when someone saved it first (409 `details.current`), else null. */
+export function ecuConflictCurrent(error: unknown): Ecu | null {
+  if (!isApiError(error) || error.status !== 409 || !error.details || typeof error.details !== 'object') return null;
+  const parsed = EcuSchema.safeParse((error.details as { current?: unknown }).current);
+  return parsed.success ? parsed.data : null;
+}
+
+/** The catalogue changed: its list, and everything computed from which ECUs an asset carries. */
+function invalidateCatalogue(queryClient: QueryClient, programId: string) {
+  return Promise.all([
+    queryClient.invalidateQueries({ queryKey: softwareKeys.ecus(programId) }),
+    queryClient.invalidateQueries({ queryKey: softwareKeys.baselineLists() }),
+    queryClient.invalidateQueries({ queryKey: softwareKeys.baselines() }),
+    invalidateSoftware(queryClient),
+  ]);
+}
+
+export function useCreateEcuMutation() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (body: CreateEcu) => apiRequest(SOFTWARE_API.ecus, { method: 'POST', body, schema: EcuSchema }),
+    onSuccess: (ecu) => invalidateCatalogue(queryClient, ecu.programId),
+  });
+}
+
+export function useUpdateEcuMutation(programId: string) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: ({ id, ...body }: UpdateEcu & { id: string }) => apiRequest(SOFTWARE_API.ecu(id), { method: 'PATCH', body, schema: EcuSchema }),
+    onSuccess: () => invalidateCatalogue(queryClient, programId),
+    onError: (error) => {
+      // Someone saved first: show their copy in the list.
+      if (ecuConflictCurrent(error)) void queryClient.invalidateQueries({ queryKey: softwareKeys.ecus(programId) });
+    },
+  });
+}
+
 export function useBaselinesQuery(programId: string | null) {
   return useQuery({
     queryKey: softwareKeys.baselineList(programId ?? ''),
@@ -241,6 +296,10 @@ export function useUpdateBaselineMutation(id: string) {
       queryClient.setQueryData(softwareKeys.baseline(id), baseline);
       return invalidateBaselines(queryClient);
     },
+    onError: (error) => {
+      const current = baselineConflictCurrent(error);
+      if (current) queryClient.setQueryData(softwareKeys.baseline(id), current);
+    },
   });
 }
 
@@ -252,5 +311,38 @@ export function useReleaseBaselineMutation(id: string) {
       queryClient.setQueryData(softwareKeys.baseline(id), baseline);
       return invalidateBaselines(queryClient);
     },
+    onError: (error) => {
+      const current = baselineConflictCurrent(error);
+      if (current) queryClient.setQueryData(softwareKeys.baseline(id), current);
+    },
   });
+}
+
+export function useCreateBaselineMutation() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (body: CreateBaseline) => apiRequest(SOFTWARE_API.baselines, { method: 'POST', body, schema: BaselineSchema }),
+    onSuccess: (baseline) => {
+      queryClient.setQueryData(softwareKeys.baseline(baseline.id), baseline);
+      return invalidateBaselines(queryClient);
+    },
+  });
+}
+
+export function useDeleteBaselineMutation() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (id: string) => apiRequest(SOFTWARE_API.baseline(id), { method: 'DELETE' }),
+    onSuccess: (_answer, id) => {
+      queryClient.removeQueries({ queryKey: softwareKeys.baseline(id) });
+      return invalidateBaselines(queryClient);
+    },
+  });
+}
+
+/** The server's copy of a baseline when someone saved it first (409 `details.current`), else null. */
+export function baselineConflictCurrent(error: unknown): Baseline | null {
+  if (!isApiError(error) || error.status !== 409 || !error.details || typeof error.details !== 'object') return null;
+  const parsed = BaselineSchema.safeParse((error.details as { current?: unknown }).current);
+  return parsed.success ? parsed.data : null;
 }

@@ -29,6 +29,7 @@ import {
   type EcuRow,
 } from './software-common';
 import { recordFlash } from './software-installed';
+import { byStart, endOfDay, loadPlannedUses, neededFor, testOfProgram, useSentence } from './software-planned-uses';
 import { assertMember } from './stages';
 
 type MatrixQuery = z.output<typeof MatrixQuerySchema>;
@@ -161,10 +162,13 @@ export async function softwareMatrix(deps: Deps, user: SessionUser, q: MatrixQue
 /** Beyond this many assets the list asks for a narrower filter rather than holding the server. */
 export const REFLASH_MAX_ASSETS = 50_000;
 
-export async function reflashList(deps: Deps, user: SessionUser, q: ReflashQuery): Promise<ReflashList> {
+export async function reflashList(deps: Deps, user: SessionUser, q: ReflashQuery, now = new Date()): Promise<ReflashList> {
   assertMember(user, q.programId, 'This program');
   const ecus = await loadEcus(deps, q.programId);
   await checkFilters(user, q, ecus);
+  const test = q.testId ? await testOfProgram(deps, q.programId, q.testId) : null;
+  const uses = await loadPlannedUses(deps, q.programId, now);
+  const filter = { before: q.before ? endOfDay(q.before) : undefined, testId: test?.id };
   const baselines = await loadReleasedBaselines(deps, q.programId, q.stageId);
   const stages = await Stage.findAll({ where: { programId: q.programId, ...(q.stageId ? { id: q.stageId } : {}) }, order: [['position', 'ASC']] });
   const bind: unknown[] = [];
@@ -198,6 +202,8 @@ export async function reflashList(deps: Deps, user: SessionUser, q: ReflashQuery
   for (const a of assets) {
     const baseline = baselines.get(a.stage_id);
     if (!baseline) continue;
+    const need = neededFor(uses.get(a.id), filter);
+    if (!need.pass) continue;
     const { cells } = evaluateAsset({ kind: a.kind, stageId: a.stage_id }, parseCfg(a.cfg), ecus, baseline);
     for (const { ecu, conformance: c } of cells) {
       if (q.ecuId && ecu.id !== q.ecuId) continue;
@@ -218,26 +224,59 @@ export async function reflashList(deps: Deps, user: SessionUser, q: ReflashQuery
         status: c.status,
         reason: statusReason(c, codes),
         recordVersion: a.record_versions?.[ecu.id] ?? null,
+        neededFor: need.use,
+        neededBy: need.use?.at ?? null,
       });
     }
   }
+  // What is needed first comes first; entries without a date keep the tag order after them.
+  items.sort((x, y) => (x.neededFor && y.neededFor ? byStart(x.neededFor, y.neededFor) : x.neededFor ? -1 : y.neededFor ? 1 : 0));
   return {
     items,
     assets: listed.size,
     stagesWithoutBaseline: stages.filter((s) => !baselines.has(s.id) && !s.retired).map((s) => ({ id: s.id, name: s.name })),
+    before: q.before ?? null,
+    test,
   };
 }
 
-export const REFLASH_COLUMNS = ['tag', 'vin', 'stage', 'location', 'ecu', 'ecu_name', 'installed', 'flash_to', 'status', 'reason'] as const;
+export const REFLASH_COLUMNS = [
+  'tag',
+  'vin',
+  'stage',
+  'location',
+  'ecu',
+  'ecu_name',
+  'installed',
+  'flash_to',
+  'status',
+  'reason',
+  'needed_by',
+  'needed_for',
+] as const;
 
 export async function reflashCsv(deps: Deps, user: SessionUser, q: ReflashQuery) {
   const list = await reflashList(deps, user, q);
   const program = await Program.findByPk(q.programId);
   const csv = toCsv(
     REFLASH_COLUMNS,
-    list.items.map((i) => [i.tag, i.vin ?? '', i.stage, i.location, i.ecuCode, i.ecuName, i.installed ?? '', i.flashTo ?? '', i.status, i.reason]),
+    list.items.map((i) => [
+      i.tag,
+      i.vin ?? '',
+      i.stage,
+      i.location,
+      i.ecuCode,
+      i.ecuName,
+      i.installed ?? '',
+      i.flashTo ?? '',
+      i.status,
+      i.reason,
+      i.neededBy ?? '',
+      useSentence(i.neededFor),
+    ]),
   );
-  return { csv, filename: `reflash-${program?.code ?? 'program'}-${new Date().toISOString().slice(0, 10)}.csv` };
+  const scope = [q.before ? `before-${q.before}` : '', list.test ? 'test' : ''].filter(Boolean).join('-');
+  return { csv, filename: `reflash-${program?.code ?? 'program'}-${new Date().toISOString().slice(0, 10)}${scope ? `-${scope}` : ''}.csv` };
 }
 
 /** Marks a reflash list entry done: records the flash of `version` on the asset's ECU. */

@@ -22,7 +22,7 @@ export const SOFTWARE_API = {
   importApply: '/api/software/import/apply',
   /** `?programId=&stageId=&status=&ecuId=&cursor=&limit=` */
   matrix: '/api/software/matrix',
-  /** `?programId=&stageId=&ecuId=` */
+  /** `?programId=&stageId=&ecuId=&before=YYYY-MM-DD&testId=` */
   reflash: '/api/software/reflash',
   reflashCsv: '/api/software/reflash.csv',
   /** POST ReflashDoneSchema -> AssetSoftwareSchema */

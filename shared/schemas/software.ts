@@ -433,7 +433,36 @@ export const ReflashQuerySchema = z.strictObject({
   programId: uuid,
   stageId: uuid.optional(),
   ecuId: uuid.optional(),
+  /**
+   * Only assets with a planned use (see PLANNED_USE_KINDS) that starts on or before this day (to
+   * its end, UTC); a use already under way counts.
+   */
+  before: z.iso.date('Use a date like 2026-12-31.').optional(),
+  /** Only assets allocated to this validation test and not yet passed on it. */
+  testId: uuid.optional(),
 });
+export type ReflashQuery = z.input<typeof ReflashQuerySchema>;
+
+/**
+ * What an asset is needed for, by when: a booked drive (planned or out), a test campaign started
+ * and not complete, a validation test allocated and not passed (running: now; otherwise by the
+ * gate target date of the test's stage), and the gate review of the asset's stage (its target date).
+ */
+export const PLANNED_USE_KINDS = ['drive', 'campaign', 'test', 'gate'] as const;
+export const PlannedUseKindSchema = z.enum(PLANNED_USE_KINDS);
+export type PlannedUseKind = z.infer<typeof PlannedUseKindSchema>;
+export const PlannedUseSchema = z.object({
+  kind: PlannedUseKindSchema,
+  /** The drive's purpose, the campaign's or test's name, or the stage of the gate. */
+  name: z.string(),
+  /** When it starts (ISO date-time); null when no date is set (a planned test on a stage without a gate target date). */
+  at: z.string().nullable(),
+  /** Started already (a drive out, a running test or campaign): the flash is due now. */
+  underWay: z.boolean(),
+  /** The validation test, for kind `test`. */
+  testId: z.string().nullable(),
+});
+export type PlannedUse = z.infer<typeof PlannedUseSchema>;
 export const ReflashEntrySchema = z.object({
   assetId: z.string(),
   tag: z.string(),
@@ -451,6 +480,13 @@ export const ReflashEntrySchema = z.object({
   reason: z.string(),
   /** The installed record's version, to send back as `recordVersion` when marking it done. */
   recordVersion: z.number().int().nullable(),
+  /**
+   * The earliest planned use the flash is needed for: of the chosen test with `testId`, of those
+   * starting by the chosen day with `before`, otherwise of every planned use. null: none known.
+   */
+  neededFor: PlannedUseSchema.nullable(),
+  /** `neededFor.at`: the flash is needed by then. */
+  neededBy: z.string().nullable(),
 });
 export type ReflashEntry = z.infer<typeof ReflashEntrySchema>;
 export const ReflashListSchema = z.object({
@@ -458,6 +494,10 @@ export const ReflashListSchema = z.object({
   assets: z.number().int(),
   /** Stages of the filter that have no released baseline: nothing on them can be listed. */
   stagesWithoutBaseline: z.array(z.object({ id: z.string(), name: z.string() })),
+  /** The `before` day of the filter, if any. */
+  before: z.string().nullable(),
+  /** The validation test of the filter, if any. */
+  test: z.object({ id: z.string(), name: z.string(), stageId: z.string(), stage: z.string() }).nullable(),
 });
 export type ReflashList = z.infer<typeof ReflashListSchema>;
 

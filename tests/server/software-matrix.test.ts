@@ -160,7 +160,7 @@ describe('the reflash list', () => {
     expect(csv.headers['content-type']).toMatch(/^text\/csv/);
     expect(csv.headers['content-disposition']).toMatch(/attachment; filename="reflash-T[0-9A-F]+-\d{4}-\d{2}-\d{2}\.csv"/);
     const lines = csv.text.trim().split('\r\n');
-    expect(lines[0]).toBe('tag,vin,stage,location,ecu,ecu_name,installed,flash_to,status,reason');
+    expect(lines[0]).toBe('tag,vin,stage,location,ecu,ecu_name,installed,flash_to,status,reason,needed_by,needed_for');
     expect(lines).toHaveLength(5);
     expect(lines[1]).toMatch(new RegExp(`^${assets[1].tag},,Integration car,,FZC,FZC controller,4\\.1\\.3,4\\.2\\.1,behind,`));
     const list = await request(t.app).get(`/api/software/reflash?programId=${world.program.id}`).set(world.auth('driver'));

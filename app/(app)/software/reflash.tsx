@@ -1,5 +1,7 @@
-import { SoftwareReflashScreen } from '@/components/software/software-reflash-screen';
+import { useLocalSearchParams } from 'expo-router';
+import { SoftwareReflashScreen, type ReflashParams } from '@/components/software/software-reflash-screen';
 
 export default function SoftwareReflashRoute() {
-  return <SoftwareReflashScreen />;
+  const params = useLocalSearchParams<Record<keyof ReflashParams, string>>();
+  return <SoftwareReflashScreen params={params} />;
 }
