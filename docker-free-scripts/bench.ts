@@ -3,7 +3,10 @@
 // Lighthouse on the signed-in asset list, API endpoints against their bare SQL with statement
 // counts at 50 and 5,000 assets, a read/write load, and the photo bytes sent. Prints the table
 // and writes bench-results/latest.md and latest.json. BENCH_QUICK=1 for fewer runs and a 10 s
-// load; BENCH_LOAD_SECONDS sets the load's duration. Everything listens on 127.0.0.1 only.
+// load; BENCH_LOAD_SECONDS sets the load's duration. BENCH_ONLY=api measures only the API part
+// (no web build, Lighthouse, load or photos; written to bench-results/api-only/), and
+// BENCH_ENDPOINTS=<regular expression> narrows it to the endpoints whose name matches (for
+// example BENCH_ENDPOINTS=roll-up). Everything listens on 127.0.0.1 only.
 import { spawnSync, type ChildProcess } from 'node:child_process';
 import crypto from 'node:crypto';
 import fs from 'node:fs';
@@ -32,6 +35,12 @@ import { measurePhoto } from './bench/photos';
 import { writeResults, type Results } from './bench/report';
 import { generateScaleData } from './bench/scale-data';
 import { buildEmptyApp, firstLoadJs } from './bench/web-size';
+
+/** BENCH_ONLY: a comma-separated list of parts to run (web, api, lighthouse, load, photos); all when unset. */
+const ONLY = new Set((process.env.BENCH_ONLY ?? '').split(',').map((s) => s.trim().toLowerCase()).filter(Boolean));
+const runs = (partName: 'web' | 'api' | 'lighthouse' | 'load' | 'photos') => ONLY.size === 0 || ONLY.has(partName);
+/** BENCH_ENDPOINTS: a regular expression the measured endpoints' names must match. */
+const ENDPOINT_FILTER = process.env.BENCH_ENDPOINTS ? new RegExp(process.env.BENCH_ENDPOINTS, 'i') : null;
 
 /** The whole run is bounded: past this, everything started here is stopped. */
 const WATCHDOG_MS = 40 * 60_000;
@@ -88,6 +97,8 @@ async function part<T>(results: Results, [short, name]: [string, string], work: 
 }
 
 async function main() {
+  const unknownParts = [...ONLY].filter((p) => !['web', 'api', 'lighthouse', 'load', 'photos'].includes(p));
+  if (unknownParts.length) throw new Error(`BENCH_ONLY: unknown part ${unknownParts.join(', ')} (choose from web, api, lighthouse, load, photos)`);
   const started = Date.now();
   const results: Results = {
     startedAt: new Date().toISOString(),
@@ -138,14 +149,14 @@ async function main() {
   log(`scale data: ${Object.entries(scale.counts).map(([k, v]) => `${k} ${v}`).join(', ')}`);
 
   // 2. Web: the project's export (reused when dist/ is current) copied aside, and an empty app.
-  await part(results, ['web', 'web first-load JavaScript (project and empty Expo Router app)'], async () => {
+  if (runs('web')) await part(results, ['web', 'web first-load JavaScript (project and empty Expo Router app)'], async () => {
     buildWeb();
     fs.cpSync(path.join(ROOT, 'dist'), webDist, { recursive: true });
     const app = firstLoadJs(webDist);
     const empty = firstLoadJs(buildEmptyApp(path.join(tmpRoot!, 'empty-app')));
     results.web = { app, empty, ratio: app.gzip / empty.gzip };
   });
-  results.notes.push(
+  if (runs('web')) results.notes.push(
     'Web: the scripts dist/index.html loads (script tags and script preloads) after `expo export --platform web`, gzipped at zlib\'s default level as the server\'s compression middleware sends them; the floor is an empty Expo Router app (root layout with <Slot/>, one screen with a Text, the project\'s web.output) exported in the same run from the same node_modules.',
   );
 
@@ -159,7 +170,7 @@ async function main() {
   const targetOf = (p: typeof scale.big) => ({ programId: p.id, assetId: p.sampleAssetId, stageId: p.stageIds[1] ?? p.stageIds[0] });
 
   // 4. API against bare SQL, and statements per request.
-  await part(results, ['API', 'API endpoints against bare SQL'], async () => {
+  if (runs('api')) await part(results, ['API', 'API endpoints against bare SQL'], async () => {
     const deps = {
       config,
       sequelize,
@@ -169,7 +180,9 @@ async function main() {
     };
     const inProcess = await startInProcess(deps);
     try {
-      const { endpoints, notes } = discoverEndpoints(inProcess.routes);
+      const discovered = discoverEndpoints(inProcess.routes);
+      const endpoints = ENDPOINT_FILTER ? discovered.endpoints.filter((e) => ENDPOINT_FILTER.test(e.name)) : discovered.endpoints;
+      const notes = ENDPOINT_FILTER ? [...discovered.notes, `only the endpoints matching BENCH_ENDPOINTS=${process.env.BENCH_ENDPOINTS}: ${endpoints.map((e) => e.name).join(', ') || 'none'}`] : discovered.notes;
       for (const n of notes) log(n);
       results.notes.push(...notes);
       results.api = await measureApi({ endpoints, inProcess, serverBase: base, databaseUrl, token: leadToken, big: targetOf(scale.big), small: targetOf(scale.small) });
@@ -178,13 +191,13 @@ async function main() {
       deps.storage.close();
     }
   });
-  results.notes.push(
+  if (runs('api')) results.notes.push(
     `API: statements captured by wrapping pg's Client#query in an app built with createApp on the same database (the fewest of three requests, so a pool connection's set-up is not counted); endpoint time over HTTP (keep-alive) against the started server, bare time replaying the same statements with the same binds on one pg connection, one after the other; the two are timed in turns (endpoint, then bare) after 3 unmeasured pairs, medians of up to ${QUICK ? 10 : 30} pairs (fewer when an endpoint's pairs pass 90 s), signed in as the lead.`,
   );
 
   // 3. Lighthouse on the signed-in asset list, and on the empty app for this machine's floor.
   const lhRuns = QUICK ? 1 : 3;
-  await part(results, ['Lighthouse', 'Lighthouse (asset list, then the empty app)'], async () => {
+  if (runs('lighthouse')) await part(results, ['Lighthouse', 'Lighthouse (asset list, then the empty app)'], async () => {
     results.lighthouse = {};
     results.lighthouse.app = await runLighthouse({
       origin: base,
@@ -208,12 +221,12 @@ async function main() {
       });
     }
   });
-  results.notes.push(
+  if (runs('lighthouse')) results.notes.push(
     `Lighthouse ${results.lighthouse?.app?.lighthouse ?? ''}: mobile preset with its simulated throttling, performance only, the median of ${lhRuns} run${lhRuns === 1 ? '' : 's'} (Lighthouse's own median-run choice); Debian's Chromium with ${['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '...'].join(' ')}; signed in as the technician with the 5,000-asset program chosen, by writing the token into localStorage over CDP (playwright-core) before Lighthouse loads the page with a cleared HTTP cache. The median runs' reports: bench-results/lighthouse-asset-list.html and lighthouse-empty-app.html.`,
   );
 
   // 5. Load (after the measurements above: it writes).
-  await part(results, ['load', `load (50 connections, ${loadSeconds()} s)`], async () => {
+  if (runs('load')) await part(results, ['load', `load (50 connections, ${loadSeconds()} s)`], async () => {
     const assets = await sequelize.query<{ id: string; version: number }>(
       `SELECT id, version FROM assets WHERE program_id = $1 ORDER BY md5(id::text) LIMIT 1000`,
       { bind: [scale.big.id], type: QueryTypes.SELECT },
@@ -227,18 +240,21 @@ async function main() {
   if (results.load) results.notes.push(`Load: autocannon against the started server on loopback, signed in as the technician, ${results.load.mix}; the PATCH sends the version last seen for that asset, so a 409 is the product refusing a stale write. Status counts: ${JSON.stringify(results.load.statusCounts)}.`);
 
   // 6. Photos.
-  await part(results, ['photos', 'photo bytes'], async () => {
+  if (runs('photos')) await part(results, ['photos', 'photo bytes'], async () => {
     results.photo = await measurePhoto();
   });
-  results.notes.push(
+  if (runs('photos')) results.notes.push(
     'Photos: a 4000x3000 JPEG made with sharp (gradients with noise at three scales, quality 92), then the client\'s resize replayed server-side with sharp: long side PHOTO_CLIENT_LONG_SIDE, JPEG quality PHOTO_JPEG_QUALITY read from components/photos/prepare-photo.ts (the phone or browser does it with expo-image-manipulator; sharp stands in for it here).',
   );
 
   await sequelize.close();
   results.seconds = (Date.now() - started) / 1000;
-  const md = writeResults(path.join(ROOT, 'bench-results'), results);
+  // A partial run is kept apart, so it never overwrites the figures of a full one.
+  const outDir = ONLY.size ? path.join('bench-results', `${[...ONLY].sort().join('-')}-only`) : 'bench-results';
+  if (ONLY.size) results.notes.unshift(`A partial run: only ${[...ONLY].join(', ')} (BENCH_ONLY).`);
+  const md = writeResults(path.join(ROOT, outDir), results);
   console.log(`\n${md}`);
-  console.log(`bench: written to bench-results/latest.md and bench-results/latest.json`);
+  console.log(`bench: written to ${outDir}/latest.md and ${outDir}/latest.json`);
   return results.failures.length ? 1 : 0;
 }
 

@@ -9,9 +9,10 @@ import { Heading, Text } from '@/components/ui/text';
 import { TextField } from '@/components/ui/text-field';
 import { colors, spacing } from '@/components/theme/tokens';
 import { errorMessage } from '@/hooks/api/api-client';
-import { useProgramPeopleQuery } from '@/hooks/queries/findings';
+import { useProgramMembersQuery } from '@/hooks/queries/members';
 import { useGateDecisionMutation } from '@/hooks/queries/readiness';
 import { useSession } from '@/hooks/use-session';
+import { ROLE_LABELS } from '@/shared/schemas/auth';
 import { GateDecisionSchema, READINESS_RESULTS, type GateReview, type ReadinessResult } from '@/shared/schemas/readiness';
 import { resultLabel } from '@/components/readiness/readiness-words';
 import { dayFrom } from './gate-words';
@@ -34,7 +35,7 @@ function issuesToErrors(issues: ReadonlyArray<{ path: PropertyKey[]; message: st
 /** The lead records the decision once: go, conditional go with actions, or no-go. */
 export function GateDecisionForm({ review }: { review: GateReview }) {
   const { user } = useSession();
-  const people = useProgramPeopleQuery(review.programId);
+  const members = useProgramMembersQuery(review.programId);
   const decide = useGateDecisionMutation(review.id);
   const [decision, setDecision] = useState<ReadinessResult | null>(null);
   const [notes, setNotes] = useState('');
@@ -43,11 +44,14 @@ export function GateDecisionForm({ review }: { review: GateReview }) {
   const [failure, setFailure] = useState<string | null>(null);
   const [today] = useState(() => new Date());
 
-  const owners = [
-    ...(user ? [{ id: user.id, name: `${user.name} (you)` }] : []),
-    ...review.attendees.filter((a) => a.userId && a.userId !== user?.id).map((a) => ({ id: a.userId as string, name: a.name })),
-    ...(people.data ?? []),
-  ].filter((p, i, all) => all.findIndex((q) => q.id === p.id) === i);
+  // Who can own an action: the program's members who work in it (administrators own none), the
+  // signed-in lead first, then the review's attendees, then everyone else by name.
+  const attending = new Set(review.attendees.map((a) => a.userId).filter(Boolean));
+  const owners = (members.data ?? [])
+    .filter((m) => m.role !== 'admin')
+    .map((m, i) => ({ ...m, rank: m.id === user?.id ? 0 : attending.has(m.id) ? 1 : 2, i }))
+    .sort((a, b) => a.rank - b.rank || a.i - b.i)
+    .map((m) => ({ id: m.id, name: m.id === user?.id ? `${m.name} (you)` : m.name, role: m.role }));
 
   const update = (index: number, patch: Partial<ActionDraft>) =>
     setActions((list) => list.map((a, i) => (i === index ? { ...a, ...patch } : a)));
@@ -118,11 +122,11 @@ export function GateDecisionForm({ review }: { review: GateReview }) {
               <Select
                 label="Owner"
                 layout="chips"
-                options={owners.map((p) => ({ value: p.id, label: p.name }))}
+                options={owners.map((p) => ({ value: p.id, label: p.name, description: ROLE_LABELS[p.role] }))}
                 value={action.ownerId}
                 onChange={(ownerId) => update(i, { ownerId })}
                 error={errors[`actions.${i}.ownerId`]}
-                hint={owners.length === 0 ? 'No people found in this program yet.' : undefined}
+                hint={members.isPending ? 'Loading the program’s people…' : owners.length === 0 ? 'Nobody works in this program yet.' : undefined}
                 testID={`gate-action-owner-${i}`}
               />
               <TextField

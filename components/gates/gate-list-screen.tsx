@@ -25,7 +25,10 @@ export function GateListScreen() {
   return (
     <Screen testID="gate-list">
       <PageTitle title="Gate reviews" />
-      <TextLink href="/readiness" label="Back to readiness" />
+      <View style={styles.links}>
+        <TextLink href="/readiness" label="Back to readiness" />
+        <TextLink href="/gates/actions" label="Your gate actions" testID="gate-list-my-actions" />
+      </View>
       <View style={styles.header}>
         <Heading level={1} variant="title">
           Gate reviews
@@ -61,7 +64,6 @@ function GateReviewRow({ review }: { review: GateReviewSummary }) {
       onFocus={onFocus}
       onBlur={onBlur}
       style={[styles.row, focused && styles.focused]}
-      accessibilityLabel={`${review.stageName} gate review opened ${formatDateTime(review.openedAt)}: ${review.decision ? review.decision : 'not decided yet'}`}
       testID={`gate-row-${review.id}`}
     >
       <Card style={styles.card}>
@@ -81,6 +83,7 @@ function GateReviewRow({ review }: { review: GateReviewSummary }) {
 
 const styles = StyleSheet.create({
   header: { gap: spacing.xs },
+  links: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.lg },
   list: { gap: spacing.md },
   row: { minHeight: sizes.touch, borderRadius: radii.md },
   card: { gap: spacing.xs },

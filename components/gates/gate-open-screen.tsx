@@ -15,10 +15,9 @@ import { TextField } from '@/components/ui/text-field';
 import { TextLink } from '@/components/ui/text-link';
 import { spacing } from '@/components/theme/tokens';
 import { errorMessage } from '@/hooks/api/api-client';
-import { useProgramPeopleQuery } from '@/hooks/queries/findings';
 import { useOpenGateReviewMutation, useProgramReadinessQuery } from '@/hooks/queries/readiness';
 import { useSession } from '@/hooks/use-session';
-import { splitNames } from './gate-words';
+import { AttendeePicker, attendeesFromDraft, type AttendeeDraft } from './attendee-picker';
 
 export type GateOpenParams = { stageId?: string; corrects?: string };
 
@@ -27,11 +26,9 @@ export function GateOpenScreen({ params }: { params: GateOpenParams }) {
   const router = useRouter();
   const { user, currentProgramId } = useSession();
   const rollup = useProgramReadinessQuery(currentProgramId);
-  const people = useProgramPeopleQuery(currentProgramId);
   const open = useOpenGateReviewMutation();
   const [stageId, setStageId] = useState<string | null>(params.stageId ?? null);
-  const [memberIds, setMemberIds] = useState<string[]>(user ? [user.id] : []);
-  const [guests, setGuests] = useState('');
+  const [attendees, setAttendees] = useState<AttendeeDraft>({ memberIds: user ? [user.id] : [], guests: [], guestText: '' });
   const [notes, setNotes] = useState('');
   const [error, setError] = useState<string | null>(null);
 
@@ -47,10 +44,6 @@ export function GateOpenScreen({ params }: { params: GateOpenParams }) {
 
   const stages = rollup.data?.stages ?? [];
   const stage = stages.find((s) => s.stageId === stageId) ?? null;
-  const peopleOptions = [
-    ...(user ? [{ id: user.id, name: `${user.name} (you)` }] : []),
-    ...(people.data ?? []).filter((p) => p.id !== user?.id),
-  ].map((p) => ({ value: p.id, label: p.name }));
 
   const submit = async () => {
     if (!stageId) {
@@ -61,7 +54,7 @@ export function GateOpenScreen({ params }: { params: GateOpenParams }) {
     try {
       const review = await open.mutateAsync({
         stageId,
-        attendees: [...memberIds, ...splitNames(guests)],
+        attendees: attendeesFromDraft(attendees),
         notes: notes.trim(),
         ...(params.corrects ? { correctsReviewId: params.corrects } : {}),
       });
@@ -114,17 +107,9 @@ export function GateOpenScreen({ params }: { params: GateOpenParams }) {
         <Heading level={2} variant="heading">
           Attendees
         </Heading>
-        {peopleOptions.length > 0 ? (
-          <Select label="Program people" multiple options={peopleOptions} value={memberIds} onChange={setMemberIds} testID="gate-attendee-people" />
+        {currentProgramId ? (
+          <AttendeePicker programId={currentProgramId} meId={user?.id ?? null} value={attendees} onChange={setAttendees} testID="gate-attendees" />
         ) : null}
-        <TextField
-          label="Other attendees"
-          hint="Names of people without an account (a supplier, a guest), separated by commas."
-          value={guests}
-          onChangeText={setGuests}
-          multiline
-          testID="gate-attendees"
-        />
         <TextField label="Notes" value={notes} onChangeText={setNotes} multiline numberOfLines={4} testID="gate-notes" />
         {error ? <Notice message={error} testID="gate-open-error" /> : null}
         <Button label="Open the review" onPress={() => void submit()} loading={open.isPending} testID="gate-open-submit" />

@@ -1,21 +1,26 @@
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
-import { formatDate, formatDateTime } from '@/components/assets/asset-words';
+import { formatDateTime } from '@/components/assets/asset-words';
 import { formatScore, isLead, resultLabel } from '@/components/readiness/readiness-words';
 import { ResultBadge } from '@/components/readiness/result-badge';
 import { StageReadinessCard } from '@/components/readiness/stage-readiness-card';
 import { Card } from '@/components/ui/card';
-import { Badge, Chip } from '@/components/ui/chip';
+import { Button } from '@/components/ui/button';
+import { Badge } from '@/components/ui/chip';
 import { PageTitle } from '@/components/ui/page-title';
 import { Screen } from '@/components/ui/screen';
 import { ErrorState, LoadingState, Notice } from '@/components/ui/states';
 import { Heading, Text } from '@/components/ui/text';
+import { TextField } from '@/components/ui/text-field';
 import { TextLink } from '@/components/ui/text-link';
 import { spacing } from '@/components/theme/tokens';
-import { errorMessage } from '@/hooks/api/api-client';
-import { useGateReviewQuery, useUpdateGateActionMutation } from '@/hooks/queries/readiness';
+import { errorMessage, isApiError } from '@/hooks/api/api-client';
+import { useProgramMembersQuery } from '@/hooks/queries/members';
+import { useGateReviewQuery, useUpdateGateReviewMutation } from '@/hooks/queries/readiness';
 import { useSession } from '@/hooks/use-session';
-import { GATE_ACTION_STATUSES, GATE_ACTION_STATUS_LABELS, type GateAction, type GateReview } from '@/shared/schemas/readiness';
+import type { GateReview } from '@/shared/schemas/readiness';
+import { AttendeePicker, attendeesFromDraft, draftFromAttendees, type AttendeeDraft } from './attendee-picker';
+import { GateActionItem, canMoveAction } from './gate-action-item';
 import { GateDecisionForm } from './gate-decision-form';
 import { attendeeNames } from './gate-words';
 
@@ -80,13 +85,7 @@ export function GateReviewScreen({ reviewId }: { reviewId: string }) {
         ) : null}
       </Card>
 
-      <Card style={styles.card}>
-        <Heading level={2} variant="heading">
-          Attendees and notes
-        </Heading>
-        <Text testID="gate-review-attendees">{attendeeNames(review.attendees)}</Text>
-        <Text testID="gate-review-notes">{review.notes || 'No notes.'}</Text>
-      </Card>
+      <AttendeesCard review={review} canEdit={lead && !review.decision} />
 
       {review.decision ? null : lead ? (
         <GateDecisionForm review={review} />
@@ -94,6 +93,83 @@ export function GateReviewScreen({ reviewId }: { reviewId: string }) {
         <Notice tone="warning" message="No decision yet: a lead records it." />
       )}
     </Screen>
+  );
+}
+
+/** Attendees and notes; a lead changes them until the decision is recorded (then the record is closed). */
+function AttendeesCard({ review, canEdit }: { review: GateReview; canEdit: boolean }) {
+  const { user } = useSession();
+  const members = useProgramMembersQuery(canEdit ? review.programId : null);
+  const update = useUpdateGateReviewMutation(review.id);
+  const [draft, setDraft] = useState<AttendeeDraft | null>(null);
+  const [notes, setNotes] = useState('');
+  const [error, setError] = useState<string | null>(null);
+  const [saved, setSaved] = useState(false);
+
+  const startEditing = () => {
+    setDraft(draftFromAttendees(review.attendees, members.data ?? []));
+    setNotes(review.notes);
+    setError(null);
+    setSaved(false);
+  };
+  const save = async () => {
+    if (!draft) return;
+    setError(null);
+    try {
+      await update.mutateAsync({ attendees: attendeesFromDraft(draft), notes: notes.trim(), version: review.version });
+      setDraft(null);
+      setSaved(true);
+    } catch (cause) {
+      setError(
+        errorMessage(cause, {
+          'request/conflict': 'Someone changed this review first. It now shows their version: check it and make your change again.',
+        }),
+      );
+      if (isApiError(cause) && cause.status === 409) setDraft(null);
+    }
+  };
+
+  if (canEdit && draft) {
+    return (
+      <Card style={styles.card} testID="gate-attendees-edit">
+        <Heading level={2} variant="heading">
+          Attendees and notes
+        </Heading>
+        <Text tone="muted">You can change these until the decision is recorded.</Text>
+        <AttendeePicker programId={review.programId} meId={user?.id ?? null} value={draft} onChange={setDraft} testID="gate-edit-attendees" />
+        <TextField label="Notes" value={notes} onChangeText={setNotes} multiline numberOfLines={4} testID="gate-edit-notes" />
+        {error ? <Notice message={error} testID="gate-attendees-error" /> : null}
+        <View style={styles.line}>
+          <Button label="Save attendees and notes" onPress={() => void save()} loading={update.isPending} testID="gate-attendees-save" />
+          <Button label="Cancel" variant="ghost" onPress={() => setDraft(null)} disabled={update.isPending} testID="gate-attendees-cancel" />
+        </View>
+      </Card>
+    );
+  }
+  return (
+    <Card style={styles.card} testID="gate-attendees-card">
+      <View style={styles.titleLine}>
+        <Heading level={2} variant="heading">
+          Attendees and notes
+        </Heading>
+        {canEdit ? (
+          <Button
+            label="Change"
+            icon="users"
+            variant="secondary"
+            compact
+            onPress={startEditing}
+            disabled={members.isPending}
+            accessibilityLabel="Change the attendees and notes"
+            testID="gate-attendees-change"
+          />
+        ) : null}
+      </View>
+      <Text testID="gate-review-attendees">{attendeeNames(review.attendees)}</Text>
+      <Text testID="gate-review-notes">{review.notes || 'No notes.'}</Text>
+      {saved ? <Notice tone="success" message="Attendees and notes saved." testID="gate-attendees-saved" /> : null}
+      {error ? <Notice message={error} testID="gate-attendees-error" /> : null}
+    </Card>
   );
 }
 
@@ -121,56 +197,11 @@ function DecidedRecord({ review, canCorrect }: { review: GateReview; canCorrect:
             Actions
           </Heading>
           {review.actions.map((action, i) => (
-            <ActionRow key={action.id} action={action} index={i} reviewId={review.id} canMove={canMoveAction(action, user?.id, user?.role)} />
+            <GateActionItem key={action.id} action={action} canMove={canMoveAction(action, user?.id, user?.role)} show="owner" testID={`gate-action-${i}`} />
           ))}
         </View>
       ) : null}
     </Card>
-  );
-}
-
-function canMoveAction(action: GateAction, userId: string | undefined, role: string | undefined): boolean {
-  return role === 'lead' || role === 'engineer' || (Boolean(userId) && action.owner?.id === userId);
-}
-
-function ActionRow({ action, index, reviewId, canMove }: { action: GateAction; index: number; reviewId: string; canMove: boolean }) {
-  const move = useUpdateGateActionMutation(reviewId);
-  const [error, setError] = useState<string | null>(null);
-  const setStatus = async (status: GateAction['status']) => {
-    if (status === action.status) return;
-    setError(null);
-    try {
-      await move.mutateAsync({ id: action.id, status, version: action.version });
-    } catch (cause) {
-      setError(errorMessage(cause, { 'request/conflict': 'Someone changed this action first. It is refreshed: try again.' }));
-    }
-  };
-  return (
-    <View style={styles.action} testID={`gate-action-${index}`}>
-      <Text variant="bodyStrong">{action.title}</Text>
-      <Text tone="muted" variant="caption">
-        {`Owner ${action.owner?.name ?? 'nobody'} · due ${formatDate(action.dueDate)}${action.overdue ? ' · overdue' : ''}`}
-      </Text>
-      <View style={styles.line}>
-        <Badge label={GATE_ACTION_STATUS_LABELS[action.status]} tone={action.status === 'done' ? 'success' : action.overdue ? 'danger' : 'neutral'} testID={`gate-action-status-${index}`} />
-      </View>
-      {canMove ? (
-        <View style={styles.line} role="radiogroup" aria-label={`Status of ${action.title}`}>
-          {GATE_ACTION_STATUSES.map((status) => (
-            <Chip
-              key={status}
-              kind="radio"
-              label={GATE_ACTION_STATUS_LABELS[status]}
-              selected={action.status === status}
-              disabled={move.isPending}
-              onPress={() => void setStatus(status)}
-              testID={`gate-action-${index}-${status}`}
-            />
-          ))}
-        </View>
-      ) : null}
-      {error ? <Notice message={error} /> : null}
-    </View>
   );
 }
 
@@ -180,5 +211,5 @@ const styles = StyleSheet.create({
   line: { flexDirection: 'row', alignItems: 'center', gap: spacing.sm, flexWrap: 'wrap' },
   assetRow: { flexDirection: 'row', alignItems: 'center', gap: spacing.md, flexWrap: 'wrap' },
   actions: { gap: spacing.md },
-  action: { gap: spacing.xs },
+  titleLine: { flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between', gap: spacing.sm, flexWrap: 'wrap' },
 });

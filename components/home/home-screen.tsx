@@ -12,6 +12,7 @@ import { colors, radii, spacing } from '@/components/theme/tokens';
 import { useBreakpoints } from '@/hooks/use-breakpoints';
 import { useSession } from '@/hooks/use-session';
 import { ROLE_LABELS } from '@/shared/schemas/auth';
+import { MyGateActionsCard } from './my-gate-actions-card';
 import { ProgramGlance } from './program-glance';
 
 export function HomeScreen() {
@@ -36,6 +37,8 @@ export function HomeScreen() {
           </Text>
         </View>
       </View>
+
+      {currentProgram && user.role !== 'admin' ? <MyGateActionsCard programId={currentProgram.id} /> : null}
 
       <Card>
         <Heading level={2} variant="heading">

@@ -16,6 +16,7 @@ import { photoFormData, type QueuedPhoto } from '@/hooks/offline/photo-data';
 import { queueKeys } from '@/hooks/offline/queue-keys';
 import { reportProgress } from '@/hooks/offline/send-progress';
 import { invalidateAsset } from '@/hooks/queries/assets';
+import { useProgramWorkersQuery } from '@/hooks/queries/members';
 import { uploadErrorMessage } from '@/hooks/use-photo-upload';
 import { FINDING_API } from '@/shared/api/finding-paths';
 import { IDEMPOTENCY_HEADER, PhotoSchema, type Photo, type System } from '@/shared/schemas/assets';
@@ -32,7 +33,6 @@ import {
   type Finding,
   type FindingSeverity,
   type FindingStatusFilterSchema,
-  type Person,
   type UpdateFinding,
 } from '@/shared/schemas/findings';
 import type { z } from 'zod';
@@ -125,28 +125,11 @@ export function useFindingHistoryQuery(id: string | null) {
 }
 
 /**
- * People to offer as owner or watcher. There is no member list for non-admins yet, so this
- * gathers everyone seen on the program's findings (owners, filers, watchers), newest first.
+ * People to offer as owner or watcher: the program's members who work in it (GET
+ * /api/programs/:id/members, administrators left out: they own no findings), by name.
  */
 export function useProgramPeopleQuery(programId: string | null) {
-  return useQuery({
-    queryKey: findingKeys.people(programId ?? ''),
-    queryFn: async ({ signal }) => {
-      const page = await apiRequest(
-        `${FINDING_API.findings}?${findingQueryString({ programId: programId ?? '', sort: 'updated', dir: 'desc' }, { limit: 200 })}`,
-        { schema: FindingListSchema, signal },
-      );
-      const people = new Map<string, Person>();
-      for (const finding of page.items) {
-        for (const person of [finding.owner, finding.createdBy, ...finding.watchers]) {
-          if (person && person.name && !people.has(person.id)) people.set(person.id, person);
-        }
-      }
-      return [...people.values()].sort((a, b) => a.name.localeCompare(b.name));
-    },
-    enabled: Boolean(programId),
-    staleTime: 5 * 60_000,
-  });
+  return useProgramWorkersQuery(programId);
 }
 
 /** A finding change shows in its page, its history, every list, and on its asset (which may be cleared or not). */

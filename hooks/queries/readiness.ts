@@ -2,6 +2,7 @@ import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/r
 import { apiRequest } from '@/hooks/api/api-client';
 import {
   AssetReadinessSchema,
+  GateActionListSchema,
   GateActionSchema,
   GateReviewListSchema,
   GateReviewSchema,
@@ -9,8 +10,10 @@ import {
   StageTrendSchema,
   TargetDateResultSchema,
   type CreateGateReview,
+  type GateAction,
   type GateDecision,
   type UpdateGateAction,
+  type UpdateGateReview,
 } from '@/shared/schemas/readiness';
 
 /** The readiness and gate-review endpoints (server/routes/readiness.ts). */
@@ -22,6 +25,7 @@ export const READINESS_API = {
   gateReviews: '/api/gate-reviews',
   gateReview: (id: string) => `/api/gate-reviews/${id}`,
   gateDecision: (id: string) => `/api/gate-reviews/${id}/decision`,
+  gateActions: '/api/gate-actions',
   gateAction: (id: string) => `/api/gate-actions/${id}`,
 } as const;
 
@@ -37,6 +41,8 @@ export const gateKeys = {
   lists: () => [...gateKeys.all, 'list'] as const,
   list: (programId: string, stageId?: string) => [...gateKeys.lists(), programId, stageId ?? 'all'] as const,
   detail: (id: string) => [...gateKeys.all, 'detail', id] as const,
+  /** The signed-in user's gate actions in a program. */
+  myActions: (programId: string) => [...gateKeys.all, 'my-actions', programId] as const,
 };
 
 export const assetReadinessQueryOptions = (assetId: string) =>
@@ -127,11 +133,46 @@ export function useGateDecisionMutation(reviewId: string) {
   });
 }
 
-export function useUpdateGateActionMutation(reviewId: string) {
+/** A lead changes the attendees or notes of a review until its decision is recorded (409 afterwards, or when someone changed it first). */
+export function useUpdateGateReviewMutation(reviewId: string) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: ({ id, ...body }: UpdateGateAction & { id: string }) =>
-      apiRequest(READINESS_API.gateAction(id), { method: 'PATCH', body, schema: GateActionSchema }),
-    onSettled: () => queryClient.invalidateQueries({ queryKey: gateKeys.detail(reviewId) }),
+    mutationFn: (body: UpdateGateReview) => apiRequest(READINESS_API.gateReview(reviewId), { method: 'PATCH', body, schema: GateReviewSchema }),
+    onSuccess: (review) => {
+      queryClient.setQueryData(gateKeys.detail(review.id), review);
+      return queryClient.invalidateQueries({ queryKey: gateKeys.lists() });
+    },
+    // A 409: the review was decided or changed meanwhile; show it as it is now.
+    onError: () => queryClient.invalidateQueries({ queryKey: gateKeys.detail(reviewId) }),
+  });
+}
+
+/** The actions of the program's gate reviews that the signed-in user owns: open ones first by due date, then the done ones. */
+export function useMyGateActionsQuery(programId: string | null, opts: { enabled?: boolean } = {}) {
+  return useQuery({
+    queryKey: gateKeys.myActions(programId ?? ''),
+    queryFn: async ({ signal }) => {
+      const params = new URLSearchParams({ programId: programId ?? '', mine: 'true' });
+      return (await apiRequest(`${READINESS_API.gateActions}?${params.toString()}`, { schema: GateActionListSchema, signal })).items;
+    },
+    enabled: Boolean(programId) && (opts.enabled ?? true),
+  });
+}
+
+/** Moves an action (its owner or a lead), with an optional note; the review page and the owner's list follow. */
+export function useUpdateGateActionMutation() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: ({ id, status, note, version }: UpdateGateAction & { id: string; reviewId: string }) =>
+      apiRequest(READINESS_API.gateAction(id), { method: 'PATCH', body: { status, note, version }, schema: GateActionSchema }),
+    onSuccess: (action: GateAction) => {
+      queryClient.setQueryData<GateAction[]>(gateKeys.myActions(action.programId), (list) => list?.map((a) => (a.id === action.id ? action : a)));
+    },
+    onSettled: (_action, _error, variables) =>
+      Promise.all([
+        queryClient.invalidateQueries({ queryKey: [...gateKeys.all, 'my-actions'] }),
+        queryClient.invalidateQueries({ queryKey: gateKeys.detail(variables.reviewId) }),
+        queryClient.invalidateQueries({ queryKey: gateKeys.lists() }),
+      ]),
   });
 }

@@ -2,6 +2,7 @@ import type { Router } from 'express';
 import { z } from 'zod';
 import { CreateProgramSchema, InviteUserSchema, SetMembersSchema, UpdateUserSchema } from '../../shared/schemas/admin';
 import type { Deps } from '../deps';
+import { pathId } from '../lib/ids';
 import { RouteTable } from '../lib/routes';
 import { currentUser } from '../middleware/auth';
 import * as admin from '../services/admin';
@@ -32,6 +33,10 @@ export function adminRoutes(_router: Router, deps: Deps, table: RouteTable) {
   table.add({ method: 'get', path: '/admin/programs/:id', access: ADMIN }, async (req, res) => {
     const { id } = IdParam.parse(req.params);
     res.json(await admin.getProgram(currentUser(req), id));
+  });
+  // Any member of the program (not only its admins) reads who else is in it, for the pickers.
+  table.add({ method: 'get', path: '/programs/:id/members', access: 'user' }, async (req, res) => {
+    res.json({ items: await admin.listProgramMembers(deps, currentUser(req), pathId(req.params.id, 'This program')) });
   });
   table.add({ method: 'put', path: '/admin/programs/:id/members', access: ADMIN }, async (req, res) => {
     const { id } = IdParam.parse(req.params);

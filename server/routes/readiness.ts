@@ -17,7 +17,7 @@ import * as readiness from '../services/readiness';
 
 /** Leads run gate reviews and set gate target dates (PRODUCT.md section 2). */
 const LEAD = ['lead'] as const;
-/** Anyone who works in a program may be an action's owner; the service lets the owner, an engineer or a lead move it. */
+/** Anyone who works in a program may be an action's owner; the service lets the owner or a lead move it. */
 const ACTION_MOVERS = ['technician', 'engineer', 'coordinator', 'driver', 'lead'] as const;
 
 /**

@@ -1,5 +1,5 @@
-import { Op } from 'sequelize';
-import type { AdminUser, CreateProgram, InviteUser, UpdateUser } from '../../shared/schemas/admin';
+import { Op, QueryTypes } from 'sequelize';
+import type { AdminUser, CreateProgram, InviteUser, ProgramMember as MemberDto, UpdateUser } from '../../shared/schemas/admin';
 import { Program, ProgramMember, User } from '../db/models';
 import type { Deps } from '../deps';
 import { AppError, conflict, notFound } from '../lib/app-error';
@@ -153,6 +153,19 @@ export async function getProgram(admin: SessionUser, id: string) {
   const memberIds = (await ProgramMember.findAll({ where: { programId: id } })).map((m) => m.userId);
   const members = await User.findAll({ where: { id: { [Op.in]: memberIds } }, order: [['name', 'ASC']] });
   return { ...toProgramDto(program), members: members.map(toUserDto) };
+}
+
+/**
+ * The active members of a program, for any of its members (pickers of owners, watchers and
+ * attendees): id, name and role, by name. Another program answers 404 like its other objects.
+ */
+export async function listProgramMembers(deps: Deps, user: SessionUser, programId: string): Promise<MemberDto[]> {
+  if (!user.programIds.includes(programId)) throw notFound('This program');
+  return deps.sequelize.query<MemberDto>(
+    `SELECT u.id, u.name, u.role FROM users u JOIN program_members pm ON pm.user_id = u.id AND pm.program_id = $1
+      WHERE u.active ORDER BY lower(u.name), u.id`,
+    { bind: [programId], type: QueryTypes.SELECT },
+  );
 }
 
 export async function setMembers(deps: Deps, admin: SessionUser, id: string, userIds: string[]) {

@@ -36,8 +36,8 @@ type UpdateAction = z.output<typeof UpdateGateActionSchema>;
 type ActionListQuery = z.output<typeof GateActionListQuerySchema>;
 type ReviewListQuery = z.output<typeof GateReviewListQuerySchema>;
 
-/** Who may move a gate action besides its owner (PRODUCT.md section 2: engineers and leads close findings too). */
-export const ACTION_MANAGERS: readonly Role[] = ['engineer', 'lead'];
+/** Who may move a gate action besides its owner: the leads, who run gate reviews and track what they decided (PRODUCT.md section 2). */
+export const ACTION_MANAGERS: readonly Role[] = ['lead'];
 export const GATE_MAIL_KIND = 'gate-decision';
 
 const fieldError = (field: string, message: string, code = 'request/invalid', status = 400) =>
@@ -75,12 +75,17 @@ type ActionRow = {
   review_id: string;
   program_id: string;
   stage_id: string;
+  stage_name: string;
+  decided_at: Date | null;
   title: string;
   owner_id: string | null;
   owner_name: string | null;
   due_date: string;
   status: GateActionStatus;
+  note: string;
   updated_at: Date;
+  updated_by: string | null;
+  updated_by_name: string | null;
   version: number;
 };
 
@@ -94,9 +99,13 @@ const REVIEW_SELECT = `
     LEFT JOIN users db ON db.id = r.decided_by`;
 
 const ACTION_SELECT = `
-  SELECT a.id, a.review_id, a.program_id, r.stage_id, a.title, a.owner_id, u.name AS owner_name, a.due_date::text AS due_date,
-         a.status, a.updated_at, a.version
-    FROM gate_actions a JOIN gate_reviews r ON r.id = a.review_id LEFT JOIN users u ON u.id = a.owner_id`;
+  SELECT a.id, a.review_id, a.program_id, r.stage_id, s.name AS stage_name, r.decided_at, a.title, a.owner_id, u.name AS owner_name,
+         a.due_date::text AS due_date, a.status, a.note, a.updated_at, a.updated_by, ub.name AS updated_by_name, a.version
+    FROM gate_actions a
+    JOIN gate_reviews r ON r.id = a.review_id
+    JOIN stages s ON s.id = r.stage_id
+    LEFT JOIN users u ON u.id = a.owner_id
+    LEFT JOIN users ub ON ub.id = a.updated_by`;
 
 function actionDto(a: ActionRow, asOf = new Date()): GateAction {
   return {
@@ -104,12 +113,16 @@ function actionDto(a: ActionRow, asOf = new Date()): GateAction {
     reviewId: a.review_id,
     programId: a.program_id,
     stageId: a.stage_id,
+    stageName: a.stage_name,
+    reviewDecidedAt: a.decided_at ? a.decided_at.toISOString() : null,
     title: a.title,
     owner: a.owner_id ? { id: a.owner_id, name: a.owner_name ?? '' } : null,
     dueDate: a.due_date,
     status: a.status,
+    note: a.note,
     overdue: a.status !== 'done' && a.due_date < utcDate(asOf),
     updatedAt: a.updated_at.toISOString(),
+    updatedBy: a.updated_by ? { id: a.updated_by, name: a.updated_by_name ?? '' } : null,
     version: a.version,
   };
 }
@@ -327,13 +340,15 @@ export async function decideReview(deps: Deps, user: SessionUser, id: string, in
     const ownerIds = [...new Set(input.actions.map((a) => a.ownerId.toLowerCase()))];
     const owners = ownerIds.length
       ? await deps.sequelize.query<{ id: string }>(
-          `SELECT u.id FROM users u JOIN program_members pm ON pm.user_id = u.id AND pm.program_id = $1 WHERE u.id = ANY($2::uuid[]) AND u.active`,
+          `SELECT u.id FROM users u JOIN program_members pm ON pm.user_id = u.id AND pm.program_id = $1
+            WHERE u.id = ANY($2::uuid[]) AND u.active AND u.role <> 'admin'`,
           { bind: [row.program_id, ownerIds], type: QueryTypes.SELECT, transaction },
         )
       : [];
     const known = new Set(owners.map((o) => o.id));
     input.actions.forEach((a, i) => {
-      if (!known.has(a.ownerId.toLowerCase())) throw fieldError(`actions.${i}.ownerId`, 'Choose an active member of this program.');
+      // Administrators own no actions (as they own no findings): they could not move them.
+      if (!known.has(a.ownerId.toLowerCase())) throw fieldError(`actions.${i}.ownerId`, 'Choose someone who works in this program.');
       if (isPastDueDate(a.dueDate, asOf)) throw fieldError(`actions.${i}.dueDate`, 'Choose today or a later day.');
     });
     await deps.sequelize.query(
@@ -441,27 +456,35 @@ export async function visibleAction(deps: Deps, user: SessionUser, id: string, t
   return row;
 }
 
+/**
+ * Moves an action (its owner or a lead), with an optional note kept on the action and in its
+ * history. The same status with a different note changes only the note. Only gate_actions is
+ * written: the decided review beside it stays as it was (its trigger never fires).
+ */
 export async function updateAction(deps: Deps, user: SessionUser, id: string, input: UpdateAction): Promise<GateAction> {
   return deps.sequelize.transaction(async (transaction) => {
     const row = await visibleAction(deps, user, id, transaction);
     if (row.owner_id !== user.id && !ACTION_MANAGERS.includes(user.role)) {
-      throw new AppError(403, 'gate/action-forbidden', "Only the action's owner, an engineer or a lead can change its status.");
+      throw new AppError(403, 'gate/action-forbidden', "Only the action's owner or a lead can change it.");
     }
     if (row.version !== input.version) throw conflict('Someone else changed this action first.', actionDto(row));
-    if (row.status === input.status) return actionDto(row);
-    await deps.sequelize.query(`UPDATE gate_actions SET status = $2, updated_by = $3, version = version + 1, updated_at = now() WHERE id = $1`, {
-      bind: [id, input.status, user.id],
-      transaction,
-    });
+    const statusChanged = row.status !== input.status;
+    // A status change without a note clears the last one (it spoke of the earlier status).
+    const note = input.note ?? (statusChanged ? '' : row.note);
+    if (!statusChanged && note === row.note) return actionDto(row);
+    await deps.sequelize.query(
+      `UPDATE gate_actions SET status = $2, note = $3, updated_by = $4, version = version + 1, updated_at = now() WHERE id = $1`,
+      { bind: [id, input.status, note, user.id], transaction },
+    );
     await recordHistory(
       {
         programId: row.program_id,
         entityType: 'gate-action',
         entityId: id,
-        action: 'status-changed',
+        action: statusChanged ? 'status-changed' : 'note-changed',
         actorId: user.id,
-        before: { status: row.status },
-        after: { status: input.status },
+        before: { status: row.status, note: row.note },
+        after: { status: input.status, note },
       },
       transaction,
     );
@@ -474,7 +497,7 @@ export async function listActions(deps: Deps, user: SessionUser, q: ActionListQu
   assertMember(user, q.programId, 'This program');
   const rows = await deps.sequelize.query<ActionRow>(
     `${ACTION_SELECT} WHERE a.program_id = $1 AND ($2::uuid IS NULL OR a.owner_id = $2::uuid) AND ($3::text IS NULL OR a.status = $3)
-      ORDER BY a.due_date, a.id`,
+      ORDER BY a.status = 'done', CASE WHEN a.status = 'done' THEN NULL ELSE a.due_date END, a.updated_at DESC, a.id`,
     { bind: [q.programId, q.mine === 'true' ? user.id : null, q.status ?? null], type: QueryTypes.SELECT },
   );
   return { items: rows.map((r) => actionDto(r)) };

@@ -1,9 +1,23 @@
 import { QueryTypes, type Transaction } from 'sequelize';
-import { isPastDueDate } from '../../shared/domain/finding-workflow';
-import { byText, computeReadiness, rollUpStage, type AssetFigure, type ReadinessFinding, type ReadinessInput } from '../../shared/domain/readiness';
+import { isPastDueDate, utcDate } from '../../shared/domain/finding-workflow';
+import {
+  byLoadThenTitle,
+  byText,
+  computeReadiness,
+  findingLoad,
+  findingsLoadOf,
+  rollUpStage,
+  summarizeReadiness,
+  type AssetFigure,
+  type OffBaselineEcu,
+  type ReadinessInput,
+  ListedStops,
+  type StopList,
+} from '../../shared/domain/readiness';
+import { conformance, type BaselineForConformance } from '../../shared/domain/software';
 import { TREND_SERIES_DAYS, TREND_WINDOW_DAYS, addDays, fitLoadTrend, forecastStage, isoDay, meetsTarget, type LoadPoint } from '../../shared/domain/trend';
 import type { AssetKind, AssetStatus, GateSettings } from '../../shared/schemas/assets';
-import { CLOSED_FINDING_STATUSES, type FindingSeverity, type FindingStatus } from '../../shared/schemas/findings';
+import { CLOSED_FINDING_STATUSES, FINDING_SEVERITIES, type FindingSeverity, type FindingStatus } from '../../shared/schemas/findings';
 import type {
   AssetReadiness,
   ProgramReadiness,
@@ -19,16 +33,23 @@ import { AppError, notFound } from '../lib/app-error';
 import type { SessionUser } from '../middleware/auth';
 import { visibleAsset } from './assets';
 import { recordHistory } from './history';
-import { evaluateAsset, loadEcus, loadReleasedBaselines, type AssetEvaluation } from './software-common';
+import { carries, loadEcus, loadReleasedBaselines } from './software-common';
 import { assertMember } from './stages';
-import { validationPartsForAssets } from './validation';
+import { validationPartsForAssets, type ValidationParts } from './validation';
 
 // Readiness is computed here, in one place, for one asset, one stage or a whole program, in a
 // fixed number of statements whatever the number of assets (issue 7): the stages with their gate
-// settings and target dates; the assets with their open checklist's required items and their
-// installed software folded in; the open findings; the ECU catalogue; the released baselines;
-// the validation parts (validationPartsForAssets). The pure function in shared/domain/readiness
-// does the arithmetic. The roll-up and the trend read one more: the stage snapshots.
+// settings and target dates; the assets with their open checklist's required items counted and
+// their installed software folded in; the open findings; the ECU catalogue; the released
+// baselines; the validation parts (validationPartsForAssets). The pure functions in
+// shared/domain/readiness do the arithmetic. The roll-up and the trend read one more: the stage
+// snapshots.
+//
+// A roll-up (a stage or a program) needs each asset's score and what stops its gate, not the
+// breakdown of each score, so its statements count in SQL what the score is made of: the
+// findings per severity and due state (no finding rows), the required items passed and open
+// (their titles come as unparsed text, read only for the few worst assets the blocker list
+// shows). One asset's readiness reads its findings and items in full for the breakdown.
 
 const CLOSED_SQL = CLOSED_FINDING_STATUSES.map((s) => `'${s}'`).join(', ');
 
@@ -54,12 +75,62 @@ type AssetRow = {
   status: AssetStatus;
   required_total: number;
   required_done: number;
-  open_required: Array<{ id: string; title: string; position: number }>;
+  /** JSON text of the open required items, unordered ([{ id, title, position }]); null when none. */
+  open_required: string | null;
   cfg: string | null;
 };
 
-/** Every figure readiness needs for the scope, and each asset's readiness. */
-export async function computeFigures(deps: Deps, scope: ReadinessScope, asOf: Date, transaction?: Transaction): Promise<Figures> {
+type OpenRequired = { id: string; title: string; position: number };
+
+/** The open required items of an asset in checklist order (the statement leaves them unordered). */
+const openRequiredOf = (text: string | null): Array<{ id: string; title: string }> =>
+  text
+    ? (JSON.parse(text) as OpenRequired[]).sort((x, y) => x.position - y.position || byText(x.id, y.id)).map((item) => ({ id: item.id, title: item.title }))
+    : [];
+
+/** An asset's open required items: counted in SQL, their JSON text parsed only if the blocker list reaches the asset. */
+class OpenRequiredStops implements StopList<{ id: string; title: string }> {
+  private parsed: Array<{ id: string; title: string }> | null = null;
+  constructor(
+    readonly count: number,
+    private readonly text: string | null,
+  ) {}
+  items() {
+    return (this.parsed ??= openRequiredOf(this.text));
+  }
+}
+
+type Where = { bind: unknown[]; asset: string; visit: string; installed: string };
+
+/**
+ * The conditions of the scope as SQL, with their bind values. Only the conditions that apply go
+ * into the statements, so the planner sees exact filters (a generic "$2 IS NULL OR ..." misleads
+ * its row estimates on large programs).
+ */
+function scopeWhere(scope: ReadinessScope): Where {
+  const bind: unknown[] = [scope.programId];
+  const p = (value: unknown) => `$${bind.push(value)}`;
+  const asset = ['a.program_id = $1'];
+  const visit = ['v.program_id = $1', 'v.left_at IS NULL'];
+  const installed = ['i.program_id = $1'];
+  if (scope.assetId) {
+    const id = p(scope.assetId);
+    asset.push(`a.id = ${id}`);
+    visit.push(`v.asset_id = ${id}`);
+    installed.push(`i.asset_id = ${id}`);
+  }
+  if (scope.stageId) {
+    const id = p(scope.stageId);
+    asset.push(`a.stage_id = ${id}`);
+    visit.push(`v.stage_id = ${id}`);
+    installed.push(`i.asset_id IN (SELECT s.id FROM assets s WHERE s.program_id = $1 AND s.stage_id = ${id})`);
+  }
+  if (!scope.includeRetired) asset.push(`a.status <> 'retired'`);
+  return { bind, asset: asset.join(' AND '), visit: visit.join(' AND '), installed: installed.join(' AND ') };
+}
+
+/** The statements every scope reads before its findings, and the conformance of each asset's software. */
+async function readCommon(deps: Deps, scope: ReadinessScope, where: Where, transaction?: Transaction) {
   const { sequelize } = deps;
   const stageRows = await sequelize.query<{ id: string; name: string; position: number; retired: boolean; gate: GateSettings; target_date: string | null }>(
     `SELECT s.id, s.name, s.position, s.retired, s.gate, g.target_date::text AS target_date
@@ -68,117 +139,190 @@ export async function computeFigures(deps: Deps, scope: ReadinessScope, asOf: Da
     { bind: [scope.programId], type: QueryTypes.SELECT, transaction },
   );
   const stages: StageInfo[] = stageRows.map((s) => ({ id: s.id, name: s.name, position: s.position, retired: s.retired, gate: s.gate, targetDate: s.target_date }));
-
-  // Only the conditions that apply go into the statements, so the planner sees exact filters
-  // (a generic "$2 IS NULL OR ..." misleads its row estimates on large programs).
-  const bind: unknown[] = [scope.programId];
-  const p = (value: unknown) => `$${bind.push(value)}`;
-  const assetWhere = ['a.program_id = $1'];
-  const visitWhere = ['v.program_id = $1', 'v.left_at IS NULL'];
-  const installedWhere = ['i.program_id = $1'];
-  if (scope.assetId) {
-    const id = p(scope.assetId);
-    assetWhere.push(`a.id = ${id}`);
-    visitWhere.push(`v.asset_id = ${id}`);
-    installedWhere.push(`i.asset_id = ${id}`);
-  }
-  if (scope.stageId) {
-    const id = p(scope.stageId);
-    assetWhere.push(`a.stage_id = ${id}`);
-    visitWhere.push(`v.stage_id = ${id}`);
-    installedWhere.push(`i.asset_id IN (SELECT s.id FROM assets s WHERE s.program_id = $1 AND s.stage_id = ${id})`);
-  }
-  if (!scope.includeRetired) assetWhere.push(`a.status <> 'retired'`);
-  // Open required items go out unordered (no sort per asset in the database); position orders them here.
-  const assetRows = await sequelize.query<AssetRow>(
-    `SELECT a.id, a.tag, a.kind, a.stage_id, a.status,
+  // The required items' counts per asset, the open ones as JSON text (parsed only where they are read), and the installed versions.
+  // RAW: the rows as pg hands them over (a SELECT query would copy each of thousands of rows once more).
+  const [assetRows] = (await sequelize.query(
+    `SELECT a.id, a.tag, a.kind::text AS kind, a.stage_id, a.status::text AS status,
             coalesce(ck.required_total, 0) AS required_total, coalesce(ck.required_done, 0) AS required_done,
-            coalesce(ck.open_required, '[]'::jsonb) AS open_required, sw.cfg
+            ck.open_required::text AS open_required, sw.cfg
        FROM assets a
        LEFT JOIN (
          SELECT v.asset_id,
                 count(*) FILTER (WHERE ci.required_for_gate)::int AS required_total,
                 count(*) FILTER (WHERE ci.required_for_gate AND ci.state IN ('passed', 'not-applicable'))::int AS required_done,
-                jsonb_agg(jsonb_build_object('id', ci.id, 'title', ci.title, 'position', ci.position))
+                json_agg(json_build_object('id', ci.id, 'title', ci.title, 'position', ci.position))
                   FILTER (WHERE ci.required_for_gate AND ci.state NOT IN ('passed', 'not-applicable')) AS open_required
            FROM stage_visits v JOIN checklist_items ci ON ci.visit_id = v.id
-          WHERE ${visitWhere.join(' AND ')}
+          WHERE ${where.visit}
           GROUP BY v.asset_id
        ) ck ON ck.asset_id = a.id
        LEFT JOIN (
          SELECT i.asset_id, json_object_agg(i.ecu_id, i.software_version ORDER BY i.ecu_id)::text AS cfg
            FROM installed_software i
-          WHERE ${installedWhere.join(' AND ')}
+          WHERE ${where.installed}
           GROUP BY i.asset_id
        ) sw ON sw.asset_id = a.id
-      WHERE ${assetWhere.join(' AND ')}
+      WHERE ${where.asset}
       ORDER BY a.tag, a.id`,
-    { bind, type: QueryTypes.SELECT, transaction },
-  );
-  const findingRows = await sequelize.query<{ id: string; asset_id: string; title: string; severity: FindingSeverity; status: FindingStatus; due_date: string | null }>(
-    `SELECT f.id, f.asset_id, f.title, f.severity, f.status, f.due_date::text AS due_date
-       FROM findings f JOIN assets a ON a.id = f.asset_id
-      WHERE f.program_id = $1 AND f.status NOT IN (${CLOSED_SQL}) AND ${assetWhere.join(' AND ')}`,
-    { bind, type: QueryTypes.SELECT, transaction },
-  );
-  const ecus = await loadEcus(deps, scope.programId, transaction);
-  const baselines = await loadReleasedBaselines(deps, scope.programId, undefined, transaction);
-  const validation = await validationPartsForAssets(
-    sequelize,
-    scope.assetId || scope.stageId ? assetRows.map((a) => a.id) : scope.programId,
-    transaction,
-  );
+    { bind: where.bind, type: QueryTypes.RAW, transaction },
+  )) as [AssetRow[], unknown];
+  return { stages, assetRows };
+}
 
-  const findingsByAsset = new Map<string, ReadinessFinding[]>();
-  for (const f of findingRows) {
-    const list = findingsByAsset.get(f.asset_id) ?? [];
-    list.push({ id: f.id, title: f.title, severity: f.severity, status: f.status, dueDate: f.due_date });
-    findingsByAsset.set(f.asset_id, list);
-  }
+/**
+ * Software conformance per asset (the S part and the ECUs off the baseline), shared by the assets
+ * of one stage and kind with the same installed versions. Only `conformance` itself runs per
+ * asset: what the stage and kind expect (evaluateAsset's narrowing) is worked out once for each.
+ */
+async function softwareOf(deps: Deps, programId: string, transaction?: Transaction) {
+  const ecus = await loadEcus(deps, programId, transaction);
+  const baselines = await loadReleasedBaselines(deps, programId, undefined, transaction);
   const ecuCode = new Map(ecus.map((e) => [e.id, e.code]));
-  const gateOf = new Map(stages.map((s) => [s.id, s.gate]));
-  // Assets of one stage and kind with the same installed versions share one conformance.
-  const software = new Map<string, AssetEvaluation>();
-
-  const assets = assetRows.map((a): AssetResult => {
-    const key = `${a.stage_id}|${a.kind}|${a.cfg ?? ''}`;
-    let evaluation = software.get(key);
-    if (!evaluation) {
-      const installed = a.cfg ? (JSON.parse(a.cfg) as Record<string, string>) : {};
-      evaluation = evaluateAsset({ kind: a.kind, stageId: a.stage_id }, installed, ecus, baselines.get(a.stage_id));
-      software.set(key, evaluation);
+  // Per stage and kind: what the baseline expects of such an asset, and the answers so far by installed versions.
+  const groups = new Map<string, { baseline: BaselineForConformance | null; byConfig: Map<string, SoftwarePart> }>();
+  return (a: Pick<AssetRow, 'stage_id' | 'kind' | 'cfg'>): SoftwarePart => {
+    const groupKey = `${a.stage_id}|${a.kind}`;
+    let group = groups.get(groupKey);
+    if (!group) {
+      const released = baselines.get(a.stage_id);
+      const carried = new Set(ecus.filter((e) => carries(e, { kind: a.kind, stageId: a.stage_id })).map((e) => e.id));
+      group = { baseline: released ? { targets: released.targets.filter((t) => carried.has(t.ecuId)), rules: released.rules } : null, byConfig: new Map() };
+      groups.set(groupKey, group);
     }
-    const v = validation.get(a.id) ?? { allocated: 0, passed: 0, notPassed: [] };
-    const input: Omit<ReadinessInput, 'gate' | 'asOf'> = {
-      checklist: {
-        requiredTotal: a.required_total,
-        requiredPassedOrNa: a.required_done,
-        openRequired: a.open_required
-          .sort((x, y) => x.position - y.position || byText(x.id, y.id))
-          .map((item) => ({ id: item.id, title: item.title })),
+    const config = a.cfg ?? '';
+    let found = group.byConfig.get(config);
+    if (found) return found;
+    const result = conformance(a.cfg ? (JSON.parse(a.cfg) as Record<string, string>) : {}, group.baseline);
+    const offBaseline: OffBaselineEcu[] = [];
+    for (const e of result.ecus) {
+      if (e.target !== null && !e.countsAsOnBaseline) offBaseline.push({ ecuId: e.ecuId, code: ecuCode.get(e.ecuId) ?? '?', status: e.status });
+    }
+    found = { inBaseline: result.expected, onBaseline: result.onBaseline, offBaseline: offBaseline.sort((x, y) => byText(x.code, y.code)) };
+    group.byConfig.set(config, found);
+    return found;
+  };
+}
+
+type SoftwarePart = { inBaseline: number; onBaseline: number; offBaseline: OffBaselineEcu[] };
+
+const NO_VALIDATION: ValidationParts = { allocated: 0, passed: 0, notPassed: [] };
+
+type FindingCountRow = { asset_id: string } & Record<`${FindingSeverity}_${'due' | 'late'}`, number> & {
+  /** The open safety and blocking findings (few); null when none. */
+  stops: Array<{ id: string; title: string; severity: 'safety' | 'blocking'; status: FindingStatus; dueDate: string | null }> | null;
+};
+
+/**
+ * Every figure readiness needs for the scope, and each asset's readiness without its breakdown
+ * (a stage, a program, or one asset for the daily snapshot). See `assetFigures` for one asset's
+ * breakdown.
+ */
+export async function computeFigures(deps: Deps, scope: ReadinessScope, asOf: Date, transaction?: Transaction): Promise<Figures> {
+  const { sequelize } = deps;
+  const where = scopeWhere(scope);
+  const { stages, assetRows } = await readCommon(deps, scope, where, transaction);
+  // Open findings counted per severity, due (or without a due date) and past due; the load is
+  // worked out from the counts by the domain (findingsLoadOf). The safety and blocking ones (few)
+  // come as rows too: they clear or block the asset by name.
+  const today = utcDate(asOf);
+  const late = `$${where.bind.length + 1}::date`;
+  const countCols = FINDING_SEVERITIES.flatMap((severity) => [
+    `count(*) FILTER (WHERE f.severity = '${severity}' AND (f.due_date IS NULL OR f.due_date >= ${late}))::int AS "${severity}_due"`,
+    `count(*) FILTER (WHERE f.severity = '${severity}' AND f.due_date < ${late})::int AS "${severity}_late"`,
+  ]);
+  const [findingRows] = (await sequelize.query(
+    `SELECT f.asset_id, ${countCols.join(', ')},
+            json_agg(json_build_object('id', f.id, 'title', f.title, 'severity', f.severity, 'status', f.status, 'dueDate', f.due_date))
+              FILTER (WHERE f.severity IN ('safety', 'blocking')) AS stops
+       FROM findings f JOIN assets a ON a.id = f.asset_id
+      WHERE f.program_id = $1 AND f.status NOT IN (${CLOSED_SQL}) AND ${where.asset}
+      GROUP BY f.asset_id`,
+    { bind: [...where.bind, today], type: QueryTypes.RAW, transaction },
+  )) as [FindingCountRow[], unknown];
+  const software = await softwareOf(deps, scope.programId, transaction);
+  const validation = await validationPartsForAssets(sequelize, scope.assetId || scope.stageId ? assetRows.map((a) => a.id) : scope.programId, transaction);
+  const findingsByAsset = new Map(findingRows.map((r) => [r.asset_id, r]));
+  const gateOf = new Map(stages.map((s) => [s.id, s.gate]));
+  const assets = assetRows.map((a): AssetResult => {
+    const f = findingsByAsset.get(a.id);
+    let load = 0;
+    // In the order of the asset's breakdown: heaviest first (past due), then by title.
+    const notClearedBy: Array<{ id: string; title: string; load: number }> = [];
+    const blocking: Array<{ id: string; title: string; load: number }> = [];
+    if (f) {
+      load = findingsLoadOf({
+        safety: { due: f.safety_due, pastDue: f.safety_late },
+        blocking: { due: f.blocking_due, pastDue: f.blocking_late },
+        major: { due: f.major_due, pastDue: f.major_late },
+        minor: { due: f.minor_due, pastDue: f.minor_late },
+      });
+      for (const stop of f.stops ?? []) {
+        (stop.severity === 'safety' ? notClearedBy : blocking).push({ id: stop.id, title: stop.title, load: findingLoad(stop, asOf, today) });
+      }
+      notClearedBy.sort(byLoadThenTitle);
+      blocking.sort(byLoadThenTitle);
+    }
+    const sw = software(a);
+    const v = validation.get(a.id) ?? NO_VALIDATION;
+    const readiness = summarizeReadiness({
+      checklist: { requiredTotal: a.required_total, requiredPassedOrNa: a.required_done },
+      findingsLoad: load,
+      notClearedBy,
+      software: sw,
+      validation: v,
+      gate: gateOf.get(a.stage_id)!,
+    });
+    return {
+      id: a.id,
+      tag: a.tag,
+      stageId: a.stage_id,
+      kind: a.kind,
+      status: a.status,
+      readiness,
+      stops: {
+        blockingFindings: new ListedStops(blocking),
+        openRequired: new OpenRequiredStops(a.required_total - a.required_done, a.open_required),
+        offBaseline: new ListedStops(sw.offBaseline),
+        notPassed: new ListedStops(v.notPassed),
       },
-      findings: findingsByAsset.get(a.id) ?? [],
-      software: {
-        inBaseline: evaluation.result.expected,
-        onBaseline: evaluation.result.onBaseline,
-        offBaseline: evaluation.result.ecus
-          .filter((e) => e.target !== null && !e.countsAsOnBaseline)
-          .map((e) => ({ ecuId: e.ecuId, code: ecuCode.get(e.ecuId) ?? '?', status: e.status }))
-          .sort((x, y) => byText(x.code, y.code)),
-      },
-      validation: { allocated: v.allocated, passed: v.passed, notPassed: v.notPassed },
     };
-    const gate = gateOf.get(a.stage_id)!;
-    return { id: a.id, tag: a.tag, stageId: a.stage_id, kind: a.kind, status: a.status, input, readiness: computeReadiness({ ...input, gate, asOf }) };
   });
   return { programId: scope.programId, asOf, stages, assets };
+}
+
+/** One asset's figures with the breakdown of its score: its findings and open items read in full. */
+async function assetFigures(deps: Deps, scope: ReadinessScope & { assetId: string }, asOf: Date, transaction?: Transaction) {
+  const { sequelize } = deps;
+  const where = scopeWhere(scope);
+  const { stages, assetRows } = await readCommon(deps, scope, where, transaction);
+  const findingRows = await sequelize.query<{ id: string; title: string; severity: FindingSeverity; status: FindingStatus; due_date: string | null }>(
+    `SELECT f.id, f.title, f.severity, f.status, f.due_date::text AS due_date
+       FROM findings f JOIN assets a ON a.id = f.asset_id
+      WHERE f.program_id = $1 AND f.status NOT IN (${CLOSED_SQL}) AND ${where.asset}`,
+    { bind: where.bind, type: QueryTypes.SELECT, transaction },
+  );
+  const software = await softwareOf(deps, scope.programId, transaction);
+  const validation = await validationPartsForAssets(sequelize, assetRows.map((a) => a.id), transaction);
+  const gateOf = new Map(stages.map((s) => [s.id, s.gate]));
+  const assets = assetRows.map((a) => {
+    const sw = software(a);
+    const v = validation.get(a.id) ?? NO_VALIDATION;
+    const input: Omit<ReadinessInput, 'gate' | 'asOf'> = {
+      checklist: { requiredTotal: a.required_total, requiredPassedOrNa: a.required_done, openRequired: openRequiredOf(a.open_required) },
+      findings: findingRows.map((f) => ({ id: f.id, title: f.title, severity: f.severity, status: f.status, dueDate: f.due_date })),
+      software: sw,
+      validation: { allocated: v.allocated, passed: v.passed, notPassed: v.notPassed },
+    };
+    return { id: a.id, tag: a.tag, stageId: a.stage_id, readiness: computeReadiness({ ...input, gate: gateOf.get(a.stage_id)!, asOf }) };
+  });
+  return { stages, assets };
 }
 
 // ---- One asset ----------------------------------------------------------------------------
 
 export async function assetReadiness(deps: Deps, user: SessionUser, assetId: string, asOf = new Date()): Promise<AssetReadiness> {
   const asset = await visibleAsset(user, assetId);
-  const figures = await computeFigures(deps, { programId: asset.programId, assetId: asset.id, includeRetired: true }, asOf);
+  const figures = await assetFigures(deps, { programId: asset.programId, assetId: asset.id, includeRetired: true }, asOf);
   const figure = figures.assets[0];
   if (!figure) throw notFound('This asset');
   const stage = figures.stages.find((s) => s.id === figure.stageId);

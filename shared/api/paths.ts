@@ -9,6 +9,8 @@ export const API = {
   adminPrograms: '/api/admin/programs',
   adminProgram: (id: string) => `/api/admin/programs/${id}`,
   adminProgramMembers: (id: string) => `/api/admin/programs/${id}/members`,
+  /** Any member: the program's active members, `{ items: [{ id, name, role }] }` */
+  programMembers: (id: string) => `/api/programs/${id}/members`,
   devMail: '/api/dev/mail',
   /** `?programId=` */
   stages: '/api/stages',

@@ -16,7 +16,7 @@ export const READINESS_API = {
   gateReviewDecision: (id: string) => `/api/gate-reviews/${id}/decision`,
   /** GET `?programId=&mine=true&status=` -> GateActionList */
   gateActions: '/api/gate-actions',
-  /** PATCH `{ status, version }` (owner, engineer, lead) -> GateAction */
+  /** PATCH `{ status, note?, version }` (its owner or a lead) -> GateAction */
   gateAction: (id: string) => `/api/gate-actions/${id}`,
   /** The page a decision e-mail links to. */
   gateReviewPage: (id: string) => `/gates/${id}`,
@@ -27,5 +27,5 @@ export const READINESS_ERROR_SENTENCES: Record<string, string> = {
   'gate/decided': 'This gate review is decided and cannot be changed. Open a new review that corrects it.',
   'gate/review-open': 'A review of this stage is already open: record its decision first.',
   'gate/already-corrected': 'This review has already been corrected: correct the correction instead.',
-  'gate/action-forbidden': "Only the action's owner, an engineer or a lead can change its status.",
+  'gate/action-forbidden': "Only the action's owner or a lead can change it.",
 };

@@ -65,6 +65,38 @@ export type ReadinessOutput = {
   notClearedBy: Array<{ id: string; title: string }>;
 };
 
+/** The score without its breakdown: what a roll-up, a snapshot or a frozen review needs of each asset. */
+export type ReadinessSummary = Omit<ReadinessOutput, 'breakdown'>;
+
+/** The figures the score is made of, already counted (a roll-up counts them in SQL: see `findingsLoadOf`). */
+export type ReadinessNumbers = {
+  checklist: { requiredTotal: number; requiredPassedOrNa: number };
+  /** The open findings' load (sum of `findingLoad`). */
+  findingsLoad: number;
+  /** The open safety findings, in the order the breakdown lists findings (heaviest first, then by title and id). */
+  notClearedBy: ReadonlyArray<{ id: string; title: string }>;
+  software: { inBaseline: number; onBaseline: number };
+  validation: { allocated: number; passed: number };
+  gate: GateSettings;
+};
+
+/** Open findings counted per severity, due or past due: enough for the load without the findings themselves. */
+export type OpenFindingCounts = Record<FindingSeverity, { due: number; pastDue: number }>;
+
+/** The load of counted open findings: the same sum as `findingLoad` over each of them. */
+export function findingsLoadOf(counts: OpenFindingCounts): number {
+  let load = 0;
+  for (const severity of Object.keys(SEVERITY_LOAD) as FindingSeverity[]) {
+    const n = counts[severity];
+    if (n) load += SEVERITY_LOAD[severity] * (n.due + PAST_DUE_FACTOR * n.pastDue);
+  }
+  return load;
+}
+
+/** Orders open findings as the breakdown lists them: heaviest load first, then by title and id. */
+export const byLoadThenTitle = (a: { load: number; title: string; id: string }, b: { load: number; title: string; id: string }) =>
+  b.load - a.load || byText(a.title, b.title) || byText(a.id, b.id);
+
 const PART_ORDER: readonly ReadinessPart[] = ['checklist', 'findings', 'software', 'validation'];
 
 /** Code-unit order: stable and fast (localeCompare builds a collator per call, which a roll-up of thousands of assets feels). */
@@ -144,20 +176,14 @@ function findingsText(open: Array<{ severity: FindingSeverity; pastDue: boolean 
   return `${countWords(open.length)} open findings: ${list}${late ? `; ${countWords(late)} past due` : ''}`;
 }
 
-export function computeReadiness(input: ReadinessInput): ReadinessOutput {
-  const { gate, asOf } = input;
-  const today = utcDate(asOf);
+/** Parts, score, result and clearance from counted figures: the formula of this module, without the breakdown. */
+export function summarizeReadiness(input: ReadinessNumbers): ReadinessSummary {
+  const { gate } = input;
   const weights: Parts = { ...gate.weights };
   const budget = gate.findingsBudget;
-
-  const openFindings = input.findings
-    .filter((f) => !isClosedStatus(f.status))
-    .map((f) => ({ id: f.id, title: f.title, severity: f.severity, pastDue: pastDue(f, today), load: findingLoad(f, asOf, today) }))
-    .sort((a, b) => b.load - a.load || byText(a.title, b.title) || byText(a.id, b.id));
-  const load = openFindings.reduce((sum, f) => sum + f.load, 0);
-  const notClearedBy = openFindings.filter((f) => f.severity === 'safety').map((f) => ({ id: f.id, title: f.title }));
+  const load = input.findingsLoad;
+  const notClearedBy = input.notClearedBy.map((f) => ({ id: f.id, title: f.title }));
   const cleared = notClearedBy.length === 0;
-
   const parts: Parts = {
     checklist: ratio(input.checklist.requiredPassedOrNa, input.checklist.requiredTotal),
     findings: Math.max(0, 1 - load / budget),
@@ -165,7 +191,37 @@ export function computeReadiness(input: ReadinessInput): ReadinessOutput {
     validation: ratio(input.validation.passed, input.validation.allocated),
   };
   const score = roundScore(100 * PART_ORDER.reduce((sum, p) => sum + weights[p] * parts[p], 0));
-  const result = resultFor(score, cleared, gate);
+  return {
+    score,
+    result: resultFor(score, cleared, gate),
+    cleared,
+    parts,
+    weights,
+    thresholds: { go: gate.goThreshold, conditional: gate.conditionalThreshold },
+    findingsLoad: load,
+    findingsBudget: budget,
+    notClearedBy,
+  };
+}
+
+export function computeReadiness(input: ReadinessInput): ReadinessOutput {
+  const { gate, asOf } = input;
+  const today = utcDate(asOf);
+
+  const openFindings = input.findings
+    .filter((f) => !isClosedStatus(f.status))
+    .map((f) => ({ id: f.id, title: f.title, severity: f.severity, pastDue: pastDue(f, today), load: findingLoad(f, asOf, today) }))
+    .sort(byLoadThenTitle);
+  const summary = summarizeReadiness({
+    checklist: input.checklist,
+    findingsLoad: openFindings.reduce((sum, f) => sum + f.load, 0),
+    notClearedBy: openFindings.filter((f) => f.severity === 'safety'),
+    software: input.software,
+    validation: input.validation,
+    gate,
+  });
+  const { score, weights } = summary;
+  const parts = summary.parts;
 
   // What each part took, in hundredths, apportioned so the entries add up to 100 - score exactly.
   const lost = PART_ORDER.map((p) => 100 * weights[p] * (1 - parts[p]));
@@ -208,27 +264,70 @@ export function computeReadiness(input: ReadinessInput): ReadinessOutput {
   });
 
   return {
-    score,
-    result,
-    cleared,
+    score: summary.score,
+    result: summary.result,
+    cleared: summary.cleared,
     parts,
     weights,
     breakdown,
-    thresholds: { go: gate.goThreshold, conditional: gate.conditionalThreshold },
-    findingsLoad: load,
-    findingsBudget: budget,
-    notClearedBy,
+    thresholds: summary.thresholds,
+    findingsLoad: summary.findingsLoad,
+    findingsBudget: summary.findingsBudget,
+    notClearedBy: summary.notClearedBy,
   };
 }
 
 // ---- The stage roll-up ----------------------------------------------------------------------
 
+/** What stops one asset's gate, for its stage's blocker list: how many, and the items themselves on demand (a roll-up reads only its worst assets'). */
+export interface StopList<T> {
+  readonly count: number;
+  items(): readonly T[];
+}
+
+/** A StopList of items at hand. (A class rather than an object with a closure: a roll-up makes thousands.) */
+export class ListedStops<T> implements StopList<T> {
+  constructor(private readonly list: readonly T[]) {}
+  get count() {
+    return this.list.length;
+  }
+  items() {
+    return this.list;
+  }
+}
+
+export type AssetStops = {
+  /** Open blocking findings. */
+  blockingFindings: StopList<{ id: string; title: string }>;
+  /** Required checklist items not passed (nor not applicable), in checklist order. */
+  openRequired: StopList<{ id: string; title: string }>;
+  offBaseline: StopList<OffBaselineEcu>;
+  notPassed: StopList<NotPassedTest>;
+};
+
 export type AssetFigure = {
   id: string;
   tag: string;
-  readiness: ReadinessOutput;
-  input: Pick<ReadinessInput, 'checklist' | 'findings' | 'software' | 'validation'>;
+  readiness: ReadinessSummary;
+  /** What the readiness was computed from; either this or `stops` names what stops the gate. */
+  input?: Pick<ReadinessInput, 'checklist' | 'findings' | 'software' | 'validation'>;
+  stops?: AssetStops;
 };
+
+const listOf = <T>(items: readonly T[]): StopList<T> => new ListedStops(items);
+
+/** What stops the asset's gate, from `stops` or else from the full input. */
+export function stopsOf(asset: AssetFigure): AssetStops {
+  if (asset.stops) return asset.stops;
+  const input = asset.input;
+  if (!input) throw new Error(`asset ${asset.id}: a roll-up needs its stops or its input`);
+  return {
+    blockingFindings: listOf(input.findings.filter((f) => f.severity === 'blocking' && !isClosedStatus(f.status))),
+    openRequired: listOf(input.checklist.openRequired),
+    offBaseline: listOf(input.software.offBaseline),
+    notPassed: listOf(input.validation.notPassed),
+  };
+}
 
 /** How many items of each kind of blocker a roll-up lists (the counts cover them all). */
 export const BLOCKER_TOP_ITEMS = 10;
@@ -253,80 +352,94 @@ export type StageFigures = {
  */
 export function rollUpStage(assets: readonly AssetFigure[]): StageFigures {
   const counts: ResultCounts = { go: 0, conditional: 0, noGo: 0 };
-  for (const a of assets) {
-    if (a.readiness.result === 'go') counts.go += 1;
-    else if (a.readiness.result === 'conditional') counts.conditional += 1;
-    else counts.noGo += 1;
-  }
   const n = assets.length;
+  const sums = { score: 0, checklist: 0, findings: 0, software: 0, validation: 0 };
+  let openFindingsLoad = 0;
+  let notCleared = 0;
+  for (const a of assets) {
+    const r = a.readiness;
+    if (r.result === 'go') counts.go += 1;
+    else if (r.result === 'conditional') counts.conditional += 1;
+    else counts.noGo += 1;
+    if (!r.cleared) notCleared += 1;
+    openFindingsLoad += r.findingsLoad;
+    sums.score += r.score;
+    sums.checklist += r.parts.checklist;
+    sums.findings += r.parts.findings;
+    sums.software += r.parts.software;
+    sums.validation += r.parts.validation;
+  }
   const byScore = [...assets].sort((a, b) => a.readiness.score - b.readiness.score || byText(a.tag, b.tag) || byText(a.id, b.id));
-  const mean = (f: (a: AssetFigure) => number) => assets.reduce((s, a) => s + f(a), 0) / n;
-  const openFindingsLoad = assets.reduce((s, a) => s + a.readiness.findingsLoad, 0);
+  const stops = byScore.map(stopsOf);
 
+  // Each kind is counted over every asset; only the first BLOCKER_TOP_ITEMS items, worst assets
+  // first, are read and listed.
   const blockers: Blocker[] = [];
-  const add = (kind: Blocker['kind'], rows: Array<{ asset: AssetFigure; item: Omit<BlockerItem, 'assetId' | 'assetTag'> }>, text: (count: number, assetCount: number) => string) => {
-    if (!rows.length) return;
-    const assetCount = new Set(rows.map((r) => r.asset.id)).size;
-    blockers.push({
-      kind,
-      count: kind === 'not-cleared' ? assetCount : rows.length,
-      assets: assetCount,
-      text: text(kind === 'not-cleared' ? assetCount : rows.length, assetCount),
-      items: rows.slice(0, BLOCKER_TOP_ITEMS).map((r) => ({ ...r.item, assetId: r.asset.id, assetTag: r.asset.tag })),
+  const add = <T>(
+    kind: Blocker['kind'],
+    listFor: (asset: AssetFigure, i: number) => StopList<T> | null,
+    item: (value: T) => Omit<BlockerItem, 'assetId' | 'assetTag'>,
+    text: (count: number, assetCount: number) => string,
+  ) => {
+    let count = 0;
+    let assetCount = 0;
+    const items: BlockerItem[] = [];
+    byScore.forEach((asset, i) => {
+      const list = listFor(asset, i);
+      if (!list || list.count === 0) return;
+      count += list.count;
+      assetCount += 1;
+      if (items.length >= BLOCKER_TOP_ITEMS) return;
+      for (const value of list.items()) {
+        if (items.length >= BLOCKER_TOP_ITEMS) break;
+        items.push({ ...item(value), assetId: asset.id, assetTag: asset.tag });
+      }
     });
+    if (!count) return;
+    const shown = kind === 'not-cleared' ? assetCount : count;
+    blockers.push({ kind, count: shown, assets: assetCount, text: text(shown, assetCount), items });
   };
   const on = (k: number) => `on ${countWords(k)} ${plural(k, 'asset')}`;
   add(
     'not-cleared',
-    byScore.flatMap((asset) => asset.readiness.notClearedBy.map((f) => ({ asset, item: { kind: 'finding' as const, id: f.id, label: f.title } }))),
+    (asset) => listOf(asset.readiness.notClearedBy),
+    (f) => ({ kind: 'finding', id: f.id, label: f.title }),
     (c) => `${countWords(c)} ${plural(c, 'asset')} not cleared (open safety ${plural(c, 'finding')})`,
   );
   add(
     'blocking-findings',
-    byScore.flatMap((asset) =>
-      asset.input.findings
-        .filter((f) => f.severity === 'blocking' && !isClosedStatus(f.status))
-        .map((f) => ({ asset, item: { kind: 'finding' as const, id: f.id, label: f.title } })),
-    ),
+    (_a, i) => stops[i].blockingFindings,
+    (f) => ({ kind: 'finding', id: f.id, label: f.title }),
     (c, k) => `${countWords(c)} open blocking ${plural(c, 'finding')} ${on(k)}`,
   );
   add(
     'required-items',
-    byScore.flatMap((asset) => asset.input.checklist.openRequired.map((i) => ({ asset, item: { kind: 'checklist-item' as const, id: i.id, label: i.title } }))),
+    (_a, i) => stops[i].openRequired,
+    (item) => ({ kind: 'checklist-item', id: item.id, label: item.title }),
     (c, k) => `${countWords(c)} required checklist ${plural(c, 'item')} not passed ${on(k)}`,
   );
   add(
     'ecus-off-baseline',
-    byScore.flatMap((asset) =>
-      asset.input.software.offBaseline.map((e) => ({
-        asset,
-        item: { kind: 'ecu' as const, id: e.ecuId, label: `${e.code}: ${ECU_STATUS_WORDS[e.status ?? 'missing']}` },
-      })),
-    ),
+    (_a, i) => stops[i].offBaseline,
+    (e) => ({ kind: 'ecu', id: e.ecuId, label: `${e.code}: ${ECU_STATUS_WORDS[e.status ?? 'missing']}` }),
     (c, k) => `${countWords(c)} ${plural(c, 'ECU')} off the baseline ${on(k)}`,
   );
   add(
     'tests-not-passed',
-    byScore.flatMap((asset) =>
-      asset.input.validation.notPassed.map((t) => ({ asset, item: { kind: 'validation-test' as const, id: t.testId, label: `${t.name}: ${TEST_STATUS_WORDS[t.status]}` } })),
-    ),
+    (_a, i) => stops[i].notPassed,
+    (t) => ({ kind: 'validation-test', id: t.testId, label: `${t.name}: ${TEST_STATUS_WORDS[t.status]}` }),
     (c, k) => `${countWords(c)} allocated ${plural(c, 'test')} not passed ${on(k)}`,
   );
 
   return {
     assetCount: n,
-    meanScore: n ? round2(mean((a) => a.readiness.score)) : null,
+    meanScore: n ? round2(sums.score / n) : null,
     meanParts: n
-      ? {
-          checklist: mean((a) => a.readiness.parts.checklist),
-          findings: mean((a) => a.readiness.parts.findings),
-          software: mean((a) => a.readiness.parts.software),
-          validation: mean((a) => a.readiness.parts.validation),
-        }
+      ? { checklist: sums.checklist / n, findings: sums.findings / n, software: sums.software / n, validation: sums.validation / n }
       : null,
     lowest: byScore[0] ? { id: byScore[0].id, tag: byScore[0].tag, score: byScore[0].readiness.score } : null,
     counts,
-    notCleared: assets.filter((a) => !a.readiness.cleared).length,
+    notCleared,
     openFindingsLoad,
     blockers,
   };

@@ -77,10 +77,21 @@ export function rangeProblem(range: string): string | null {
   }
 }
 
+// Answers of satisfiesRange, kept for the same reason: a roll-up checks the same few versions
+// against the same few rule ranges for thousands of assets.
+const SATISFIES = new Map<string, boolean>();
+
 /** Whether `version` lies within `range`; null when the version is not semver (nothing to say). Call with a valid range. */
 export function satisfiesRange(version: string, range: string): boolean | null {
   if (!parsed(version)) return null;
-  return semverSatisfies(version, range.trim(), RANGE_OPTIONS);
+  const key = `${range}\u0000${version}`;
+  let value = SATISFIES.get(key);
+  if (value === undefined) {
+    value = semverSatisfies(version, range.trim(), RANGE_OPTIONS);
+    if (SATISFIES.size >= PARSED_MAX) SATISFIES.clear();
+    SATISFIES.set(key, value);
+  }
+  return value;
 }
 
 /** Semantic Versioning 2.0.0 order of two versions, or null when either is not semver. */

@@ -45,6 +45,15 @@ export const ProgramListSchema = z.object({ programs: z.array(ProgramSchema.exte
 
 export const SetMembersSchema = z.strictObject({ userIds: z.array(z.uuid()).max(1000) });
 
+/**
+ * A program's active members as any member sees them (GET /api/programs/:id/members), for owner,
+ * watcher and attendee pickers: name and role only. No e-mail address: the pickers need none,
+ * and mail to members goes out from the server.
+ */
+export const ProgramMemberSchema = z.object({ id: z.string(), name: z.string(), role: RoleSchema });
+export type ProgramMember = z.infer<typeof ProgramMemberSchema>;
+export const ProgramMemberListSchema = z.object({ items: z.array(ProgramMemberSchema) });
+
 export const MailMessageSchema = z.object({
   id: z.string(),
   to: z.string(),

@@ -209,13 +209,19 @@ export const GateActionSchema = z.object({
   reviewId: z.string(),
   programId: z.string(),
   stageId: z.string(),
+  /** The stage of the review the action came from, and when that review's decision was recorded. */
+  stageName: z.string(),
+  reviewDecidedAt: z.string().nullable(),
   title: z.string(),
   owner: PersonSchema.nullable(),
   dueDate: z.string(),
   status: GateActionStatusSchema,
+  /** The note left with the last status change (for example what was done); empty when none. */
+  note: z.string(),
   /** Past its due date (a UTC day) and not done. */
   overdue: z.boolean(),
   updatedAt: z.string(),
+  updatedBy: PersonSchema.nullable(),
   version: z.number().int(),
 });
 export type GateAction = z.infer<typeof GateActionSchema>;
@@ -301,7 +307,12 @@ export type GateDecision = z.input<typeof GateDecisionSchema>;
 
 export const GateReviewListQuerySchema = z.strictObject({ programId: uuid, stageId: uuid.optional() });
 
-export const UpdateGateActionSchema = z.strictObject({ status: GateActionStatusSchema, version: z.number().int().min(0) });
+/** A status change with an optional note (kept with the action and in its history); the same status with a new note changes only the note. */
+export const UpdateGateActionSchema = z.strictObject({
+  status: GateActionStatusSchema,
+  note: text(2000).optional(),
+  version: z.number().int().min(0),
+});
 export type UpdateGateAction = z.input<typeof UpdateGateActionSchema>;
 
 export const GateActionListQuerySchema = z.strictObject({

@@ -1,7 +1,7 @@
 import type { Browser } from 'playwright-core';
 import { BASE_URL, launchBrowser, newPage, PHONE, screenshot, signIn, waitUntil, WIDE } from '../helpers/browser';
 import { apiGet, apiToken, programId } from '../helpers/api';
-import type { ProgramReadiness } from '../../shared/schemas/readiness';
+import type { GateReview, ProgramReadiness } from '../../shared/schemas/readiness';
 
 let browser: Browser;
 beforeAll(async () => {
@@ -23,6 +23,19 @@ async function mailLinking(path: string): Promise<Mail | undefined> {
 function weekAhead(): string {
   return new Date(Date.now() + 7 * 86_400_000).toISOString().slice(0, 10);
 }
+
+async function apiSend<T>(token: string, method: string, path: string, body: object): Promise<T> {
+  const res = await fetch(`${BASE_URL}${path}`, {
+    method,
+    headers: { authorization: `Bearer ${token}`, 'content-type': 'application/json' },
+    body: JSON.stringify(body),
+  });
+  if (!res.ok) throw new Error(`${method} ${path}: ${res.status} ${await res.text()}`);
+  return (await res.json()) as T;
+}
+
+/** The page's horizontal overflow in pixels (0 when nothing runs off the side). */
+const overflow = (page: import('playwright-core').Page) => page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
 
 async function stageWithBlockers(token: string) {
   const program = await programId(token, 'FW3');
@@ -57,6 +70,25 @@ describe('gate review at wide width', () => {
     if (stage.blockers.length > 0) await blockers.getByText(stage.blockers[0].text).first().waitFor();
     expect(await page.getByTestId('gate-review-attendees').textContent()).toContain('Tomas Kell');
 
+    // Until the decision, the lead changes who attended: tick a member, drop a guest, add another.
+    await page.getByTestId('gate-attendees-change').click();
+    await page.getByTestId('gate-attendees-edit').waitFor();
+    await page.getByTestId('gate-edit-attendees-people').getByRole('checkbox', { name: /Ilkka Varde/ }).click();
+    await page.getByRole('button', { name: 'Remove Tomas Kell' }).click();
+    await page.getByTestId('gate-edit-attendees').fill('Ruth Calder (test rig supplier)');
+    await page.getByTestId('gate-edit-attendees-add').click();
+    await page.getByTestId('gate-edit-notes').fill('Attendance corrected after the meeting.');
+    await page.getByTestId('gate-attendees-edit').scrollIntoViewIfNeeded();
+    await screenshot(page, 'gate-attendees-edit-wide');
+    await page.getByTestId('gate-attendees-save').click();
+    await page.getByTestId('gate-attendees-saved').waitFor();
+    const attendees = await page.getByTestId('gate-review-attendees').textContent();
+    expect(attendees).toContain('Ilkka Varde');
+    expect(attendees).toContain('Ruth Calder (test rig supplier)');
+    expect(attendees).toContain('Ines Marrow (supplier)');
+    expect(attendees).not.toContain('Tomas Kell');
+    expect(await page.getByTestId('gate-review-notes').textContent()).toBe('Attendance corrected after the meeting.');
+
     await page.getByTestId('gate-decision-conditional').click();
     await page.getByTestId('gate-action-title-0').fill('Close the coolant weep findings before the drive');
     await page.getByTestId('gate-action-owner-0').getByRole('radio').first().click();
@@ -76,9 +108,102 @@ describe('gate review at wide width', () => {
     expect(await page.getByTestId('gate-decision-submit').count()).toBe(0);
     await screenshot(page, 'gate-decided-wide');
 
+    // Once decided, the attendees can no longer be changed.
+    expect(await page.getByTestId('gate-attendees-change').count()).toBe(0);
+    expect(await page.getByTestId('gate-review-attendees').textContent()).toContain('Ruth Calder');
+
     let mail: Mail | undefined;
     await waitUntil('the decision e-mail links to the review', async () => Boolean((mail = await mailLinking(`/gates/${reviewId}`))), 30_000);
     expect(mail!.text).toContain(`/gates/${reviewId}`);
+    expect(mail!.text).toContain('Ruth Calder (test rig supplier)');
+
+    // The lead owns the action just recorded: it shows on the home page and in their gate actions.
+    const title = 'Close the coolant weep findings before the drive';
+    await page.getByTestId('nav-home').first().click();
+    const home = page.getByTestId('home-gate-actions');
+    await home.getByText(title).first().waitFor();
+    await screenshot(page, 'home-gate-actions-wide');
+    await page.getByTestId('home-gate-actions-link').click();
+    await page.getByTestId('my-gate-actions').waitFor();
+    const item = page.getByTestId(/^my-action-\d+$/).filter({ hasText: title });
+    await item.waitFor();
+    expect(await item.textContent()).toContain('gate review');
+    await item.locator('[data-testid$="-done"]').click();
+    await item.locator('[data-testid$="-note-field"]').fill('Both weeping hoses replaced and re-checked warm.');
+    await screenshot(page, 'my-gate-actions-wide');
+    await item.locator('[data-testid$="-confirm"]').click();
+    const closed = page.getByTestId('my-gate-actions-done').getByTestId(/^my-done-action-\d+$/).filter({ hasText: title });
+    await closed.waitFor();
+    expect(await closed.textContent()).toContain('Both weeping hoses replaced and re-checked warm.');
+    // The review shows it done too.
+    await page.goto(`${BASE_URL}/gates/${reviewId}`);
+    await page.getByTestId('gate-action-0-status').waitFor();
+    expect(await page.getByTestId('gate-action-0-status').textContent()).toBe('Done');
+    await page.context().close();
+  }, 150_000);
+});
+
+describe('gate reviews and gate actions at phone width', () => {
+  it('when a lead changes the attendees of an open review on a phone, then the review lists the new people', async () => {
+    const token = await apiToken('lead@fenwater.example');
+    const program = await programId(token, 'FW3');
+    const open = await apiGet<{ items: Array<{ stageId: string; decision: string | null }> }>(token, `/api/gate-reviews?programId=${program}`);
+    const rollup = await apiGet<ProgramReadiness>(token, `/api/programs/${program}/readiness`);
+    const busy = new Set(open.items.filter((r) => r.decision === null).map((r) => r.stageId));
+    const stage = rollup.stages.find((s) => !busy.has(s.stageId));
+    if (!stage) throw new Error('no stage without an open review');
+    const review = await apiSend<GateReview>(token, 'POST', '/api/gate-reviews', { stageId: stage.stageId, attendees: ['Guest from the test track'] });
+
+    const page = await newPage(browser, PHONE);
+    await signIn(page, 'lead@fenwater.example', 'proofyard-demo', `/gates/${review.id}`);
+    await page.getByTestId('gate-attendees-change').click();
+    await page.getByTestId('gate-attendees-edit').waitFor();
+    // Many members: the filter narrows the list.
+    await page.getByTestId('gate-edit-attendees-filter').fill('Tamsin');
+    await page.getByTestId('gate-edit-attendees-people').getByRole('checkbox', { name: /Tamsin Orrell/ }).click();
+    await page.getByTestId('gate-edit-attendees').fill('Night shift supervisor');
+    await page.getByTestId('gate-attendees-edit').scrollIntoViewIfNeeded();
+    await screenshot(page, 'gate-attendees-edit-phone');
+    expect(await overflow(page)).toBeLessThanOrEqual(0);
+    await page.getByTestId('gate-attendees-save').click();
+    await page.getByTestId('gate-attendees-saved').waitFor();
+    const attendees = await page.getByTestId('gate-review-attendees').textContent();
+    // The name typed but not added with the button counts too.
+    for (const name of ['Guest from the test track', 'Tamsin Orrell', 'Night shift supervisor']) expect(attendees).toContain(name);
+    await page.getByTestId('gate-attendees-card').scrollIntoViewIfNeeded();
+    await screenshot(page, 'gate-attendees-saved-phone');
+    await page.context().close();
+  }, 90_000);
+
+  it('when a technician with an overdue gate action signs in on a phone, then home shows it and they mark it done with a note', async () => {
+    const page = await newPage(browser, PHONE);
+    await signIn(page, 'technician@fenwater.example');
+    const home = page.getByTestId('home-gate-actions');
+    await home.waitFor();
+    await page.getByTestId('home-action-0-overdue').waitFor();
+    expect(await page.getByTestId('home-gate-actions-summary').textContent()).toMatch(/1 open, 1 overdue/);
+    await home.scrollIntoViewIfNeeded();
+    await screenshot(page, 'home-gate-actions-phone');
+    expect(await overflow(page)).toBeLessThanOrEqual(0);
+
+    await page.getByTestId('home-gate-actions-link').click();
+    await page.getByTestId('my-gate-actions').waitFor();
+    const item = page.getByTestId('my-action-0');
+    expect(await item.textContent()).toContain('Re-run the isolation resistance measurement');
+    expect(await item.textContent()).toContain('Bench gate review');
+    await page.getByTestId('my-action-0-start').click();
+    await waitUntil('the action is in work', async () => (await page.getByTestId('my-action-0-status').textContent()) === 'In work');
+    await page.getByTestId('my-action-0-done').click();
+    await page.getByTestId('my-action-0-note-field').fill('Measured all six rigs with the calibrated tester: all above 500 MOhm.');
+    await screenshot(page, 'my-gate-actions-phone');
+    expect(await overflow(page)).toBeLessThanOrEqual(0);
+    await page.getByTestId('my-action-0-confirm').click();
+    await page.getByTestId('my-gate-actions-done').waitFor();
+    await page.getByTestId('my-gate-actions-empty').or(page.getByTestId('my-gate-actions-summary')).first().waitFor();
+    expect(await page.getByTestId('my-gate-actions-summary').textContent()).toMatch(/Nothing open/);
+    expect(await page.getByTestId('my-done-action-0-note').textContent()).toContain('all above 500 MOhm');
+    await page.getByTestId('my-gate-actions-done').scrollIntoViewIfNeeded();
+    await screenshot(page, 'my-gate-actions-done-phone');
     await page.context().close();
   }, 90_000);
 });

@@ -152,6 +152,45 @@ describe('GET /api/programs/:id/readiness', () => {
     expect(rollup.stages.find((x) => x.stageId === proto.id)!.forecast.status).toBe('insufficient-data');
   });
 
+  it('when findings are past due, closed or without a due date, then the roll-up (which counts them in SQL) agrees with each asset asked alone', async () => {
+    const world = await makeWorld(t);
+    await muteWorld(t, world);
+    const proto = world.stages[2];
+    const a = await createAsset(t, world, { stageId: proto.id, tag: `PD-A-${Date.now()}` });
+    const b = await createAsset(t, world, { stageId: proto.id, tag: `PD-B-${Date.now()}` });
+    const lateBlocking = await addFinding(t, world, a.id, 'blocking', 'Z: subframe bolt torque low');
+    await addFinding(t, world, a.id, 'blocking', 'A: steering rack knock');
+    const lateMajor = await addFinding(t, world, a.id, 'major', 'Door seal torn');
+    await addFinding(t, world, a.id, 'minor', 'Trim clip missing');
+    const lateSafety = await addFinding(t, world, a.id, 'safety', 'Brake line rubbing');
+    const lateMinor = await addFinding(t, world, b.id, 'minor', 'Badge loose');
+    const soonMajor = await addFinding(t, world, b.id, 'major', 'Wiper parks high');
+    const closed = await addFinding(t, world, b.id, 'blocking', 'Already fixed and verified');
+    const yesterday = addDays(today(), -1);
+    for (const f of [lateBlocking, lateMajor, lateSafety, lateMinor]) await setDueDate(t, f.id, yesterday);
+    await setDueDate(t, soonMajor.id, addDays(today(), 1));
+    await t.sequelize.query(`UPDATE findings SET status = 'verified' WHERE id = $1`, { bind: [closed.id] });
+
+    const alone: AssetReadiness[] = [];
+    for (const asset of [a, b]) alone.push((await request(t.app).get(`/api/assets/${asset.id}/readiness`).set(world.auth('lead'))).body);
+    // By hand: A = blocking 2x10 + blocking 10 + major 2x3 + minor 1 + safety 2x10; B = minor 2x1 + major 3.
+    expect(alone.map((f) => f.findingsLoad)).toEqual([57, 5]);
+    const rollup = (await request(t.app).get(`/api/programs/${world.program.id}/readiness`).set(world.auth('lead'))).body as ProgramReadiness;
+    const stage = rollup.stages.find((s) => s.stageId === proto.id)!;
+    expect(stage.openFindingsLoad).toBe(62);
+    expect(stage.meanScore).toBe(Math.round(((alone[0].score + alone[1].score) / 2) * 100) / 100);
+    expect(stage.lowest).toEqual({ id: a.id, tag: a.tag, score: alone[0].score });
+    expect(stage.notCleared).toBe(1);
+    expect(stage.meanParts!.findings).toBeCloseTo((alone[0].parts.findings + alone[1].parts.findings) / 2, 12);
+    // Blocking findings listed as the asset's breakdown lists them: the past-due one (heavier) first.
+    const blocking = stage.blockers.find((x) => x.kind === 'blocking-findings')!;
+    expect(blocking).toMatchObject({ count: 2, assets: 1 });
+    expect(blocking.items.map((i) => i.label)).toEqual(['Z: subframe bolt torque low', 'A: steering rack knock']);
+    const fromBreakdown = alone[0].breakdown.find((e) => e.part === 'findings')!.items.filter((i) => /\(blocking/.test(i.label)).map((i) => i.id);
+    expect(blocking.items.map((i) => i.id)).toEqual(fromBreakdown);
+    expect(stage.blockers.find((x) => x.kind === 'not-cleared')!.items).toEqual([expect.objectContaining({ id: lateSafety.id, assetId: a.id })]);
+  });
+
   it('when a program is not mine, then 404', async () => {
     const mine = await makeWorld(t);
     const other = await makeWorld(t);

@@ -108,6 +108,7 @@ const OBJECT_FOR_PREFIX: Array<[RegExp, ForeignKey]> = [
   [/^\/api\/photos\/:id/, 'photo'],
   [/^\/api\/admin\/users\/:id/, 'user'],
   [/^\/api\/admin\/programs\/:id/, 'program'],
+  // The program's readiness roll-up and its member list (GET /api/programs/:id/members, open to any member).
   [/^\/api\/programs\/:id/, 'program'],
   [/^\/api\/validation\/tests\/:id/, 'validationTest'],
   [/^\/api\/validation\/allocations\/:id/, 'allocation'],

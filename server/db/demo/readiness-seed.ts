@@ -68,7 +68,7 @@ type ReviewPlan = {
   notes: string;
   decisionNotes: string;
   guests: string[];
-  actions: Array<{ title: string; role: string; dueInDays: number; status: 'open' | 'in-work' | 'done' }>;
+  actions: Array<{ title: string; role: string; dueInDays: number; status: 'open' | 'in-work' | 'done'; note?: string }>;
 };
 
 const REVIEWS: ReviewPlan[] = [
@@ -91,7 +91,13 @@ const REVIEWS: ReviewPlan[] = [
     actions: [
       { title: 'Update the restbus files on BN-002 and BN-006 to the current network database', role: 'engineer', dueInDays: 5, status: 'in-work' },
       { title: 'Re-run the isolation resistance measurement on all rigs with the calibrated tester', role: 'technician', dueInDays: -1, status: 'open' },
-      { title: 'Close the open blocking coolant finding on BN-001 or move it to the integration car plan', role: 'lead', dueInDays: 12, status: 'done' },
+      {
+        title: 'Close the open blocking coolant finding on BN-001 or move it to the integration car plan',
+        role: 'lead',
+        dueInDays: 12,
+        status: 'done',
+        note: 'Moved to the integration car plan: the pump outlet hose is replaced at the first car build.',
+      },
     ],
   },
 ];
@@ -167,20 +173,35 @@ export async function seedReadiness(ctx: { transaction: Transaction; now: number
         { programId: program.id, entityType: 'gate-review', entityId: id, action: 'decided', actorId: lead.id, at: decidedAt, before: { decision: null }, after: { decision: plan.decision, notes: plan.decisionNotes, actions: plan.actions.length }, note: null },
       );
       for (const [i, action] of plan.actions.entries()) {
-        const owner = byRole(action.role)[i % Math.max(1, byRole(action.role).length)] ?? lead;
+        // The role's demo account (technician@, engineer@, lead@ ...) owns it, so signing in shows it on the home page.
+        const owner = byRole(action.role)[0] ?? lead;
         const actionId = crypto.randomUUID();
         const due = addDays(isoDay(asOf), action.dueInDays);
         await program.sequelize.query(
-          `INSERT INTO gate_actions (id, program_id, review_id, title, owner_id, due_date, status, position, updated_by, version, created_at, updated_at)
-           VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12)`,
+          `INSERT INTO gate_actions (id, program_id, review_id, title, owner_id, due_date, status, note, position, updated_by, version, created_at, updated_at)
+           VALUES ($1, $2, $3, $4, $5, $6, $7, $8, $9, $10, $11, $12, $13)`,
           {
-            bind: [actionId, program.id, id, action.title, owner.id, due, action.status, i, owner.id, action.status === 'open' ? 0 : 1, decidedAt, action.status === 'open' ? decidedAt : new Date(now - DAY)],
+            bind: [
+              actionId,
+              program.id,
+              id,
+              action.title,
+              owner.id,
+              due,
+              action.status,
+              action.note ?? '',
+              i,
+              action.status === 'open' ? lead.id : owner.id,
+              action.status === 'open' ? 0 : 1,
+              decidedAt,
+              action.status === 'open' ? decidedAt : new Date(now - DAY),
+            ],
             transaction,
           },
         );
         entries.push({ programId: program.id, entityType: 'gate-action', entityId: actionId, action: 'created', actorId: lead.id, at: decidedAt, before: null, after: { reviewId: id, title: action.title, ownerId: owner.id, dueDate: due, status: 'open' }, note: null });
         if (action.status !== 'open') {
-          entries.push({ programId: program.id, entityType: 'gate-action', entityId: actionId, action: 'status-changed', actorId: owner.id, at: new Date(now - DAY), before: { status: 'open' }, after: { status: action.status }, note: null });
+          entries.push({ programId: program.id, entityType: 'gate-action', entityId: actionId, action: 'status-changed', actorId: owner.id, at: new Date(now - DAY), before: { status: 'open', note: '' }, after: { status: action.status, note: action.note ?? '' }, note: null });
         }
       }
     }

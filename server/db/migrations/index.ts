@@ -6,6 +6,7 @@ import * as software from './20261202-0004-software';
 import * as fleet from './20261202-0005-fleet';
 import * as validation from './20261202-0006-validation';
 import * as readiness from './20261202-0007-readiness';
+import * as gateActionNotes from './20261203-0008-gate-action-notes';
 
 type Step = { up: (p: { context: QueryInterface }) => Promise<void>; down: (p: { context: QueryInterface }) => Promise<void> };
 
@@ -18,4 +19,5 @@ export const MIGRATIONS: Array<{ name: string } & Step> = [
   { name: '20261202-0005-fleet', ...fleet },
   { name: '20261202-0006-validation', ...validation },
   { name: '20261202-0007-readiness', ...readiness },
+  { name: '20261203-0008-gate-action-notes', ...gateActionNotes },
 ];
