@@ -102,7 +102,7 @@ function ProgramRow({ program, selected, onPress }: { program: AdminProgramSumma
     <Pressable
       accessibilityRole="button"
       accessibilityLabel={`${program.code}, ${program.name}, ${members}. Open members`}
-      aria-selected={selected}
+      aria-pressed={selected}
       onPress={onPress}
       onFocus={ring.onFocus}
       onBlur={ring.onBlur}

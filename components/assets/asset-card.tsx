@@ -5,9 +5,9 @@ import { ProgressBar } from '@/components/ui/progress-bar';
 import { Text } from '@/components/ui/text';
 import { useFocusRing } from '@/components/ui/use-focus-ring';
 import { colors, radii, shadows, sizes, spacing } from '@/components/theme/tokens';
-import { ASSET_KIND_LABELS, ASSET_STATUS_LABELS, type AssetSummary } from '@/shared/schemas/assets';
+import { ASSET_KIND_LABELS, type AssetSummary } from '@/shared/schemas/assets';
 import { NotClearedBadge, StatusBadge } from './asset-status';
-import { notClearedSentence, progressCaption, progressFraction } from './asset-words';
+import { progressCaption, progressFraction } from './asset-words';
 
 const THUMB = 64;
 
@@ -15,19 +15,10 @@ const THUMB = 64;
 export function AssetCard({ asset }: { asset: AssetSummary }) {
   const ring = useFocusRing();
   const tid = `asset-card-${asset.tag}`;
-  const summary = [
-    asset.tag,
-    asset.stage,
-    ASSET_STATUS_LABELS[asset.status],
-    asset.cleared ? null : notClearedSentence(asset.notClearedReason),
-    progressCaption(asset.checklist),
-  ]
-    .filter(Boolean)
-    .join(', ');
+  // The link is named by what the card shows (tag first), so the words seen are the words heard.
   return (
     <LinkPressable
       href={`/assets/${asset.id}`}
-      accessibilityLabel={summary}
       testID={tid}
       onFocus={ring.onFocus}
       onBlur={ring.onBlur}

@@ -208,16 +208,6 @@ export function AssetListScreen({ params }: { params: AssetListParams }) {
           {items.length === 0 ? '' : list.hasNextPage ? `Showing the first ${items.length} assets` : items.length === 1 ? '1 asset' : `${items.length} assets`}
         </Text>
       ) : null}
-      {isWide && items.length > 0 ? (
-        <AssetTableHeader
-          sort={values.sort}
-          dir={values.dir}
-          onSort={onSort}
-          allSelected={items.length > 0 && shownSelected.length === items.length}
-          someSelected={shownSelected.length > 0}
-          onSelectAll={(on) => setSelected(on ? new Set(items.map((item) => item.id)) : new Set())}
-        />
-      ) : null}
     </View>
   );
 
@@ -244,6 +234,19 @@ export function AssetListScreen({ params }: { params: AssetListParams }) {
         />
       }
       isWide={isWide}
+      tableHeader={
+        isWide ? (
+          <AssetTableHeader
+            sort={values.sort}
+            dir={values.dir}
+            onSort={onSort}
+            allSelected={items.length > 0 && shownSelected.length === items.length}
+            someSelected={shownSelected.length > 0}
+            onSelectAll={(on) => setSelected(on ? new Set(items.map((item) => item.id)) : new Set())}
+          />
+        ) : null
+      }
+      tableLabel="Assets"
       extraData={selected}
       testID="asset-list"
       loadMoreTestID="asset-load-more"

@@ -319,7 +319,7 @@ function Choice({
   return (
     <Pressable
       accessibilityRole="button"
-      accessibilityLabel={`${spoken ?? label}: ${itemTitle}`}
+      accessibilityLabel={`${spoken ? `${label}, ${spoken.toLowerCase()}` : label}: ${itemTitle}`}
       aria-pressed={active}
       onPress={onPress}
       onFocus={ring.onFocus}

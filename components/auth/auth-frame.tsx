@@ -19,7 +19,7 @@ export function AuthFrame({
   footer?: ReactNode;
 }) {
   return (
-    <Screen narrow safeTop>
+    <Screen narrow safeTop main>
       <View style={styles.brand}>
         <Wordmark size="title" />
         <Text tone="muted">The build and test record for your prototype fleet.</Text>

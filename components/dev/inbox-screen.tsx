@@ -33,7 +33,7 @@ export function InboxScreen() {
     isApiError(mail.error) && (mail.error.status === 404 || mail.error.code === 'response/not-json');
 
   return (
-    <Screen safeTop testID="dev-inbox">
+    <Screen safeTop main testID="dev-inbox">
       <PageTitle title="Dev inbox" />
       <View style={styles.header}>
         <View style={styles.headerText}>

@@ -7,25 +7,11 @@ import { useFocusRing } from '@/components/ui/use-focus-ring';
 import { webOnly } from '@/components/ui/web-props';
 import { formatDate } from '@/components/assets/asset-words';
 import { colors, radii, shadows, sizes, spacing } from '@/components/theme/tokens';
-import { FINDING_SEVERITY_LABELS, FINDING_STATUS_LABELS, type Finding } from '@/shared/schemas/findings';
+import type { Finding } from '@/shared/schemas/findings';
 import { FindingStatusBadge, OverdueBadge, SeverityBadge } from './finding-badges';
 import { ageWords, dueWords } from './finding-words';
 
 export type FindingSortChoice = { sort: 'due' | 'age'; dir: 'asc' | 'desc' };
-
-function summary(finding: Finding, asOf: Date): string {
-  return [
-    finding.title,
-    FINDING_SEVERITY_LABELS[finding.severity],
-    FINDING_STATUS_LABELS[finding.status],
-    finding.assetTag,
-    finding.owner ? `owner ${finding.owner.name}` : 'no owner',
-    dueWords(finding.dueDate, finding.overdue),
-    ageWords(finding.createdAt, asOf) === 'today' ? 'filed today' : `filed ${ageWords(finding.createdAt, asOf)} ago`,
-  ]
-    .filter(Boolean)
-    .join(', ');
-}
 
 /** One finding in the phone list: the whole card opens it. */
 export function FindingCard({ finding, asOf }: { finding: Finding; asOf: Date }) {
@@ -33,7 +19,6 @@ export function FindingCard({ finding, asOf }: { finding: Finding; asOf: Date })
   return (
     <LinkPressable
       href={`/findings/${finding.id}`}
-      accessibilityLabel={summary(finding, asOf)}
       testID={`finding-row-${finding.id}`}
       onFocus={ring.onFocus}
       onBlur={ring.onBlur}

@@ -190,7 +190,6 @@ export function FindingsListScreen({ params }: { params: FindingListParams }) {
           {isWide ? '' : ` · sorted by ${SORT_CHOICES[values.sort].label.toLowerCase()}`}
         </Text>
       ) : null}
-      {isWide && items.length > 0 ? <FindingTableHeader sort={sortChoice} onSort={onSort} /> : null}
     </View>
   );
 
@@ -220,6 +219,8 @@ export function FindingsListScreen({ params }: { params: FindingListParams }) {
         />
       }
       isWide={isWide}
+      tableHeader={isWide ? <FindingTableHeader sort={sortChoice} onSort={onSort} /> : null}
+      tableLabel="Findings"
       testID="findings-list"
       loadMoreTestID="finding-load-more"
     />

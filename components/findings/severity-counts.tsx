@@ -42,7 +42,7 @@ function CountChip({ severity, count, selected, onPress }: { severity: FindingSe
   return (
     <Pressable
       accessibilityRole="button"
-      accessibilityLabel={`${plural(count, `open ${label.toLowerCase()} finding`)}${onPress ? (selected ? '. Showing only these; press to show all' : `. Show only ${label.toLowerCase()}`) : ''}`}
+      accessibilityLabel={`${label}, ${plural(count, 'open finding')}${onPress ? (selected ? '. Showing only these; press to show all' : `. Show only ${label.toLowerCase()}`) : ''}`}
       aria-pressed={onPress ? selected : undefined}
       disabled={!onPress}
       onPress={onPress}

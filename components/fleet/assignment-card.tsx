@@ -25,14 +25,10 @@ export function AssignmentCard({
   const flags = assignmentFlags(a, conflicts);
   const status = ASSIGNMENT_STATUS_LABELS[a.status];
   const when = formatWindow(a.startsAt, a.endsAt);
-  const spoken = [a.assetTag, showDriver ? a.driver.name : null, purposeLabel(a), when, status, ...flags.map((f) => f.label)]
-    .filter(Boolean)
-    .join(', ');
   const alarming = flags.some((f) => f.tone === 'danger');
   return (
     <LinkPressable
       href={`/fleet/assignments/${a.id}`}
-      accessibilityLabel={spoken}
       onFocus={ring.onFocus}
       onBlur={ring.onBlur}
       testID={`assignment-${a.id}`}

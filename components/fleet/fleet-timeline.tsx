@@ -114,7 +114,7 @@ export function FleetTimeline({
           {rows.map((row) => {
             const { bars, lanes } = placeBars(byVehicle.get(row.id) ?? [], start, dayWidth, now);
             return (
-              <View key={row.id} style={[styles.row, { height: lanes * LANE_H + ROW_PAD * 2 }]} accessibilityLabel={`${row.tag}: ${bars.length === 0 ? 'nothing booked' : `${bars.length} bookings`}`}>
+              <View key={row.id} style={[styles.row, { height: lanes * LANE_H + ROW_PAD * 2 }]} role="group" accessibilityLabel={`${row.tag}: ${bars.length === 0 ? 'nothing booked' : `${bars.length} bookings`}`}>
                 {dayStarts.map((day, i) => (
                   <View
                     key={dayKey(day)}
@@ -139,7 +139,7 @@ function RowLabel({ row, height }: { row: TimelineRow; height: number }) {
   return (
     <LinkPressable
       href={`/fleet/new?assetId=${row.id}`}
-      accessibilityLabel={`Book ${row.tag}, ${row.stage}`}
+      accessibilityLabel={`${row.tag}, ${row.stage}: book`}
       onFocus={ring.onFocus}
       onBlur={ring.onBlur}
       style={({ pressed }) => [styles.rowLabel, { height }, pressed && styles.pressed, ring.focused && styles.focused]}
@@ -162,7 +162,9 @@ function Bar({ placed, conflicts, maxWidth }: { placed: Placed; conflicts: Reado
   const ring = useFocusRing();
   const { a } = placed;
   const flags = assignmentFlags(a, conflicts).filter((f) => f.tone === 'danger');
-  const spoken = [a.assetTag, a.driver.name, purposeLabel(a), formatWindow(a.startsAt, a.endsAt), ASSIGNMENT_STATUS_LABELS[a.status], ...flags.map((f) => f.label)].join(', ');
+  const status = ASSIGNMENT_STATUS_LABELS[a.status];
+  // Said in the order the bar shows it (driver, purpose, flags or status), then what the bar leaves to its row and place.
+  const spoken = [a.driver.name, purposeLabel(a), ...(flags.length ? flags.map((f) => f.label) : [status]), a.assetTag, formatWindow(a.startsAt, a.endsAt), ...(flags.length ? [status] : [])].join(', ');
   const tone = flags.length ? styles.barDanger : a.status === 'checked-out' ? styles.barOut : a.status === 'returned' ? styles.barDone : styles.barPlanned;
   return (
     <LinkPressable
@@ -186,7 +188,7 @@ function Bar({ placed, conflicts, maxWidth }: { placed: Placed; conflicts: Reado
         {purposeLabel(a)}
       </Text>
       <Text variant="caption" weight={flags.length ? 'semibold' : 'regular'} tone={flags.length ? 'danger' : 'muted'} numberOfLines={1}>
-        {flags.length ? flags.map((f) => f.label).join(' · ') : ASSIGNMENT_STATUS_LABELS[a.status]}
+        {flags.length ? flags.map((f) => f.label).join(' · ') : status}
       </Text>
     </LinkPressable>
   );

@@ -5,7 +5,7 @@ import { TextLink } from '@/components/ui/text-link';
 
 export function NotFoundScreen() {
   return (
-    <Screen narrow safeTop testID="not-found">
+    <Screen narrow safeTop main testID="not-found">
       <PageTitle title="Page not found" />
       <Heading level={1} variant="title">
         This page does not exist

@@ -23,7 +23,8 @@ export function Chip({ label, selected = false, onPress, disabled = false, kind 
       accessibilityRole={kind}
       accessibilityLabel={accessibilityLabel ?? label}
       aria-checked={kind === 'button' ? undefined : selected}
-      aria-selected={kind === 'button' ? selected : undefined}
+      // A toggle button says "pressed"; aria-selected belongs to options, tabs and rows, not buttons.
+      aria-pressed={kind === 'button' ? selected : undefined}
       aria-disabled={disabled}
       disabled={disabled}
       onPress={onPress}

@@ -108,7 +108,7 @@ export function PagedList<T extends { id: string }>({
       ListFooterComponent={
         table && footer ? (
           <View role="row">
-            <View role="cell" style={styles.fill}>
+            <View role="cell" style={styles.footerCell}>
               {footer}
             </View>
           </View>
@@ -180,6 +180,9 @@ const styles = StyleSheet.create({
     flex: 1,
     minWidth: 0,
     gap: spacing.xxs,
+  },
+  footerCell: {
+    flex: 1,
   },
   tableTop: {
     gap: spacing.sm,

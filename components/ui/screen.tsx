@@ -11,11 +11,13 @@ export type ScreenProps = {
   /** Pad for the status bar when no shell sits above the screen. */
   safeTop?: boolean;
   scroll?: boolean;
+  /** The page's main landmark, for screens drawn outside the app shell (which gives its own). */
+  main?: boolean;
   testID?: string;
 };
 
 /** The page container: scrolls, pads, and keeps content to a readable width on wide screens. */
-export function Screen({ children, narrow = false, safeTop = false, scroll = true, testID }: ScreenProps) {
+export function Screen({ children, narrow = false, safeTop = false, scroll = true, main = false, testID }: ScreenProps) {
   const { isWide } = useBreakpoints();
   const insets = useSafeAreaInsets();
   const padding = isWide ? spacing.xxl : spacing.lg;
@@ -28,14 +30,11 @@ export function Screen({ children, narrow = false, safeTop = false, scroll = tru
     paddingBottom: padding + spacing.xxl,
   };
 
-  if (!scroll) {
-    return (
-      <View style={[styles.fill, pad]} testID={testID}>
-        {inner}
-      </View>
-    );
-  }
-  return (
+  const page = !scroll ? (
+    <View style={[styles.fill, pad]} testID={testID}>
+      {inner}
+    </View>
+  ) : (
     <ScrollView
       style={styles.fill}
       contentContainerStyle={[styles.content, pad]}
@@ -44,6 +43,13 @@ export function Screen({ children, narrow = false, safeTop = false, scroll = tru
     >
       {inner}
     </ScrollView>
+  );
+  return main ? (
+    <View style={styles.fill} role="main">
+      {page}
+    </View>
+  ) : (
+    page
   );
 }
 

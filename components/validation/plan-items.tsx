@@ -28,20 +28,6 @@ function counts(test: ValidationTest) {
   return `${test.allocations.length} allocated · ${test.passedSamples} passed`;
 }
 
-function summary(test: ValidationTest) {
-  return [
-    test.name,
-    test.procedureRef,
-    targets(test),
-    weibull(test),
-    sampleSizeSentence(test.requiredSamples, test.requiredSamplesExact),
-    counts(test),
-    TEST_STATUS_LABELS[test.status],
-  ]
-    .filter(Boolean)
-    .join(', ');
-}
-
 /** One test on a phone: the whole card opens it. */
 export function TestCard({ test }: { test: ValidationTest }) {
   const ring = useFocusRing();
@@ -50,7 +36,6 @@ export function TestCard({ test }: { test: ValidationTest }) {
   return (
     <LinkPressable
       href={testHref(test)}
-      accessibilityLabel={summary(test)}
       testID={tid}
       onFocus={ring.onFocus}
       onBlur={ring.onBlur}

@@ -110,7 +110,9 @@ export function ValidationPlanScreen({ stageId }: { stageId?: string }) {
                   ) : (
                     <View style={styles.cards} role="list">
                       {g.tests.map((test) => (
-                        <TestCard key={test.id} test={test} />
+                        <View key={test.id} role="listitem">
+                          <TestCard test={test} />
+                        </View>
                       ))}
                     </View>
                   )}

@@ -115,6 +115,6 @@ describe('checklist item card', () => {
     await renderItem(item);
     expect(screen.getByTestId(`item-${item.id}-hv`).textContent).toBe(HV_CAUTION);
     expect(screen.getByRole('button', { name: 'Passed: HV interlock loop' })).toBeTruthy();
-    expect(screen.getByRole('button', { name: 'Not applicable: HV interlock loop' })).toBeTruthy();
+    expect(screen.getByRole('button', { name: 'N/A, not applicable: HV interlock loop' })).toBeTruthy();
   });
 });

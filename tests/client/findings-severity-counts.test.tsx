@@ -25,8 +25,8 @@ describe('severity counts', () => {
     expect(screen.getByTestId('severity-count-blocking').textContent).toBe('Blocking5');
     expect(screen.getByTestId('severity-count-major').textContent).toBe('Major11');
     expect(screen.getByTestId('severity-count-minor').textContent).toBe('Minor0');
-    expect(screen.getByRole('button', { name: '2 open safety findings' })).toBeTruthy();
-    expect(screen.getByRole('button', { name: '0 open minor findings' })).toBeTruthy();
+    expect(screen.getByRole('button', { name: 'Safety, 2 open findings' })).toBeTruthy();
+    expect(screen.getByRole('button', { name: 'Minor, 0 open findings' })).toBeTruthy();
   });
 
   it('when a chip is pressed, then it selects that severity, and pressing the selected one clears it', () => {

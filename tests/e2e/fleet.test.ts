@@ -55,8 +55,14 @@ afterAll(async () => {
   await browser?.close();
 });
 
+/** A date as the plan's `start` and `day` parameters take it: the browser's (and this machine's) local calendar day. */
+function localDay(iso: string): string {
+  const d = new Date(iso);
+  return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
+}
+
 describe('coordinator on a wide screen', () => {
-  it('when a coordinator books a vehicle that is already booked in that window, then the refusal lists the reason', async () => {
+  it('when a coordinator books a vehicle that is already booked in that window, then the refusal lists the reason; a proposal they accept then shows on the plan', async () => {
     const page = await newPage(browser, WIDE);
     // A vehicle already booked in the window the form proposes (from the next full hour, four hours).
     const window = defaultWindow();
@@ -79,6 +85,37 @@ describe('coordinator on a wide screen', () => {
     await refusal.waitFor();
     await expect(refusal.textContent()).resolves.toMatch(/already|booked|overlap/i);
     await screenshot(page, 'coordinator-booking-refused-wide');
+
+    // Then a proposal: two requests for the same window (tomorrow, the form's default), matched
+    // to eligible drivers and vehicles; nothing is booked until the coordinator accepts.
+    await page.getByTestId('fleet-section-proposals').click();
+    await page.getByTestId('fleet-proposals').waitFor();
+    await page.getByTestId('proposal-request-add').click();
+    await page.getByTestId('proposal-request-1').waitFor();
+    await page.getByTestId('proposal-run').click();
+    await page.getByTestId('proposal-result').waitFor();
+    await page.getByTestId('proposal-pair-0').waitFor();
+    const pairs = await page.locator('[data-testid^="proposal-pair-"][data-testid$="-choose"]').count();
+    expect(pairs).toBeGreaterThanOrEqual(1);
+    await page.getByTestId('proposal-accept').click();
+    const accepted = page.getByTestId('proposal-accepted');
+    await accepted.waitFor();
+    await expect(accepted.textContent()).resolves.toMatch(/Booked (1 assignment|\d+ assignments)/);
+    const booked = await accepted
+      .locator('a[href^="/fleet/assignments/"]')
+      .evaluateAll((links) => links.map((a) => a.getAttribute('href')!.split('/').pop()!));
+    expect(booked).toHaveLength(pairs);
+    await screenshot(page, 'coordinator-proposal-accepted-wide');
+
+    // The bookings are real: the plan of their day shows each of them.
+    const first = await apiGet<{ startsAt: string; status: string }>(coordinatorToken, `/api/assignments/${booked[0]}`);
+    expect(first.status).toBe('planned');
+    const day = localDay(first.startsAt);
+    await page.goto(`${BASE_URL}/fleet?start=${day}&day=${day}`);
+    await page.getByTestId('fleet-plan').waitFor();
+    for (const id of booked) await page.getByTestId(`assignment-${id}`).first().waitFor();
+    await page.getByTestId(`assignment-${booked[0]}`).first().scrollIntoViewIfNeeded();
+    await screenshot(page, 'coordinator-plan-with-proposal-wide');
     await page.context().close();
   });
 });

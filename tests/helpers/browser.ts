@@ -25,8 +25,12 @@ export async function launchBrowser(): Promise<Browser> {
   });
 }
 
-export async function newPage(browser: Browser, viewport: { width: number; height: number }): Promise<Page> {
-  const context = await browser.newContext({ viewport, deviceScaleFactor: 1 });
+/**
+ * A page in a fresh context. `bypassCSP` lets a test inject a script tag of its own (the
+ * accessibility scan's axe-core) past the app's `script-src 'self'`.
+ */
+export async function newPage(browser: Browser, viewport: { width: number; height: number }, opts: { bypassCSP?: boolean } = {}): Promise<Page> {
+  const context = await browser.newContext({ viewport, deviceScaleFactor: 1, bypassCSP: opts.bypassCSP ?? false });
   const page = await context.newPage();
   page.setDefaultTimeout(15_000);
   return page;
