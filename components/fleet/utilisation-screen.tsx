@@ -208,7 +208,8 @@ type FigureRow = { key: string; name: string; extra: string; assignedHours: numb
 
 function FiguresTable({ caption, first, extraHeader, rows, testID }: { caption: string; first: string; extraHeader: string; rows: FigureRow[]; testID: string }) {
   return (
-    <ScrollView horizontal contentContainerStyle={styles.tableScroll}>
+    // A sideways scroller a keyboard can reach (arrow keys scroll it once it has focus).
+    <ScrollView horizontal contentContainerStyle={styles.tableScroll} role="region" aria-label={`${caption}, scrolls sideways`} tabIndex={0}>
       <View role="table" aria-label={`${caption}: hours assigned and available`} style={styles.table} testID={testID}>
         <View role="row" style={[styles.tr, styles.thead]}>
           <Cell header wide>

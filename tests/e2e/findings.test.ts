@@ -1,5 +1,5 @@
 import type { Browser } from 'playwright-core';
-import { BASE_URL, launchBrowser, newPage, screenshot, signIn, waitUntil, WIDE } from '../helpers/browser';
+import { BASE_URL, launchBrowser, newPage, PHONE, screenshot, signIn, waitUntil, WIDE } from '../helpers/browser';
 import { apiGet, apiToken, programId } from '../helpers/api';
 import type { AssetList } from '../../shared/schemas/assets';
 
@@ -14,7 +14,10 @@ afterAll(async () => {
 // Filing findings offline (two, one with a photo, each arriving exactly once) is part of
 // journey-technician.test.ts, at both widths.
 
-describe('engineer closes a finding', () => {
+describe.each([
+  ['phone', PHONE],
+  ['wide', WIDE],
+] as const)('engineer closes a finding at %s width', (label, viewport) => {
   it('when an engineer verifies a fixed finding in the browser, then it shows as verified', async () => {
     const techToken = await apiToken('technician@fenwater.example');
     const program = await programId(techToken, 'FW3');
@@ -34,11 +37,11 @@ describe('engineer closes a finding', () => {
     });
     expect(fixed.status).toBe(200);
 
-    const page = await newPage(browser, WIDE);
+    const page = await newPage(browser, viewport);
     await signIn(page, 'engineer@fenwater.example', 'proofyard-demo', `/findings/${created.id}`);
     await page.getByTestId('finding-action-verified').click();
     await waitUntil('the status reads verified', async () => /Verified/.test((await page.getByTestId('finding-status').textContent()) ?? ''));
-    await screenshot(page, 'engineer-finding-verified-wide');
+    await screenshot(page, `engineer-finding-verified-${label}`);
     await page.context().close();
   });
 });

@@ -6,7 +6,9 @@ import type { AssetList } from '../../shared/schemas/assets';
 let browser: Browser;
 let coordinatorToken: string;
 let program: string;
-let booking: { id: string; assetId: string; assetTag: string; odometerKm: number };
+type Booking = { id: string; assetId: string; assetTag: string; odometerKm: number };
+/** One booking for the driver's journey at each width, on different vehicles. */
+const bookings: Booking[] = [];
 
 const HOUR = 3600_000;
 /** The booking form's default window: from the next full hour, four hours long. */
@@ -26,14 +28,16 @@ beforeAll(async () => {
   );
   const driver = (drivers.items ?? drivers.drivers ?? []).find((d) => d.email === 'driver@fenwater.example')!;
   const vehicles = await apiGet<AssetList>(coordinatorToken, `/api/assets?programId=${program}&kind=vehicle&status=available&limit=100`);
-  // Book the demo driver on the first vehicle the rules allow (cleared, free, a stage within the driver's level).
+  // Book the demo driver twice (one journey per width) on the first vehicles and windows the rules
+  // allow (cleared, free, a stage within the driver's level, the driver free too); each window
+  // starts within the 12 hours in which check-out opens. The second cannot overlap the first:
+  // the server refuses a driver booked twice at once, and the search moves on an hour.
   const refusals: string[] = [];
-  // Book the demo driver on the first vehicle and window the rules allow (cleared, free, a stage
-  // within the driver's level); the window starts within the 12 hours in which check-out opens.
   const nextHour = new Date();
   nextHour.setMinutes(0, 0, 0);
-  search: for (let k = 1; k <= 10; k += 1) {
+  search: for (let k = 1; k <= 11; k += 1) {
     for (const vehicle of vehicles.items) {
+      if (bookings.some((b) => b.assetId === vehicle.id)) continue;
       const startsAt = new Date(nextHour.getTime() + k * HOUR).toISOString();
       const endsAt = new Date(nextHour.getTime() + (k + 2) * HOUR).toISOString();
       const res = await fetch(`${BASE_URL}/api/assignments`, {
@@ -43,13 +47,14 @@ beforeAll(async () => {
       });
       if (res.status === 201) {
         const body = (await res.json()) as { id: string };
-        booking = { id: body.id, assetId: vehicle.id, assetTag: vehicle.tag, odometerKm: vehicle.odometerKm };
-        break search;
+        bookings.push({ id: body.id, assetId: vehicle.id, assetTag: vehicle.tag, odometerKm: vehicle.odometerKm });
+        if (bookings.length === 2) break search;
+        continue search;
       }
       refusals.push(`${vehicle.tag}: ${res.status} ${(await res.text()).slice(0, 200)}`);
     }
   }
-  if (!booking) throw new Error(`no demo vehicle could be booked for the driver (${vehicles.items.length} vehicles): ${refusals.join(' | ').slice(0, 1500)}`);
+  if (bookings.length < 2) throw new Error(`the demo driver could not be booked twice (${vehicles.items.length} vehicles): ${refusals.join(' | ').slice(0, 1500)}`);
 });
 afterAll(async () => {
   await browser?.close();
@@ -61,9 +66,12 @@ function localDay(iso: string): string {
   return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
 }
 
-describe('coordinator on a wide screen', () => {
+describe.each([
+  ['wide', WIDE],
+  ['phone', PHONE],
+] as const)('coordinator at %s width', (label, viewport) => {
   it('when a coordinator books a vehicle that is already booked in that window, then the refusal lists the reason; a proposal they accept then shows on the plan', async () => {
-    const page = await newPage(browser, WIDE);
+    const page = await newPage(browser, viewport);
     // A vehicle already booked in the window the form proposes (from the next full hour, four hours).
     const window = defaultWindow();
     const planned = await apiGet<{ items: Array<{ assetId: string; startsAt: string; endsAt: string; status: string }> }>(
@@ -84,7 +92,7 @@ describe('coordinator on a wide screen', () => {
     const refusal = page.getByTestId('book-refusal-panel');
     await refusal.waitFor();
     await expect(refusal.textContent()).resolves.toMatch(/already|booked|overlap/i);
-    await screenshot(page, 'coordinator-booking-refused-wide');
+    await screenshot(page, `coordinator-booking-refused-${label}`);
 
     // Then a proposal: two requests for the same window (tomorrow, the form's default), matched
     // to eligible drivers and vehicles; nothing is booked until the coordinator accepts.
@@ -105,7 +113,7 @@ describe('coordinator on a wide screen', () => {
       .locator('a[href^="/fleet/assignments/"]')
       .evaluateAll((links) => links.map((a) => a.getAttribute('href')!.split('/').pop()!));
     expect(booked).toHaveLength(pairs);
-    await screenshot(page, 'coordinator-proposal-accepted-wide');
+    await screenshot(page, `coordinator-proposal-accepted-${label}`);
 
     // The bookings are real: the plan of their day shows each of them.
     const first = await apiGet<{ startsAt: string; status: string }>(coordinatorToken, `/api/assignments/${booked[0]}`);
@@ -115,14 +123,18 @@ describe('coordinator on a wide screen', () => {
     await page.getByTestId('fleet-plan').waitFor();
     for (const id of booked) await page.getByTestId(`assignment-${id}`).first().waitFor();
     await page.getByTestId(`assignment-${booked[0]}`).first().scrollIntoViewIfNeeded();
-    await screenshot(page, 'coordinator-plan-with-proposal-wide');
+    await screenshot(page, `coordinator-plan-with-proposal-${label}`);
     await page.context().close();
   });
 });
 
-describe('driver on a phone', () => {
+describe.each([
+  ['phone', PHONE, 0],
+  ['wide', WIDE, 1],
+] as const)('driver at %s width', (label, viewport, n) => {
   it('when the driver checks the vehicle out and back in with damage notes, then the kilometres accrue and the damage becomes a finding', async () => {
-    const page = await newPage(browser, PHONE);
+    const booking = bookings[n];
+    const page = await newPage(browser, viewport);
     await signIn(page, 'driver@fenwater.example', 'proofyard-demo', `/fleet/assignments/${booking.id}`);
     await page.getByTestId('assignment-detail').waitFor();
     await expect(page.getByText(/permits and plates/i).first().isVisible()).resolves.toBe(true);
@@ -131,7 +143,7 @@ describe('driver on a phone', () => {
     await page.getByTestId('checkout-charge').fill('86');
     await page.getByTestId('checkout-submit').click();
     await page.getByTestId('checkin-form').waitFor();
-    await screenshot(page, 'driver-checked-out-phone');
+    await screenshot(page, `driver-checked-out-${label}`);
 
     await page.getByTestId('checkin-odometer').fill(String(booking.odometerKm - 5));
     await page.getByTestId('checkin-charge').fill('40');
@@ -143,7 +155,7 @@ describe('driver on a phone', () => {
     await page.getByTestId('checkin-damage').fill('Stone chip on the windscreen, driver side');
     await page.getByTestId('checkin-submit').click();
     await page.getByTestId('checkin-finding-link').waitFor();
-    await screenshot(page, 'driver-checked-in-phone');
+    await screenshot(page, `driver-checked-in-${label}`);
 
     const asset = await apiGet<{ odometerKm: number }>(coordinatorToken, `/api/assets/${booking.assetId}`);
     expect(asset.odometerKm).toBe(booking.odometerKm + 42);

@@ -144,7 +144,7 @@ describe('gate review at wide width', () => {
 });
 
 describe('gate reviews and gate actions at phone width', () => {
-  it('when a lead changes the attendees of an open review on a phone, then the review lists the new people', async () => {
+  it('when a lead changes the attendees of an open review on a phone and records a no-go, then the review lists the new people, is read-only and is e-mailed', async () => {
     const token = await apiToken('lead@fenwater.example');
     const program = await programId(token, 'FW3');
     const open = await apiGet<{ items: Array<{ stageId: string; decision: string | null }> }>(token, `/api/gate-reviews?programId=${program}`);
@@ -172,8 +172,27 @@ describe('gate reviews and gate actions at phone width', () => {
     for (const name of ['Guest from the test track', 'Tamsin Orrell', 'Night shift supervisor']) expect(attendees).toContain(name);
     await page.getByTestId('gate-attendees-card').scrollIntoViewIfNeeded();
     await screenshot(page, 'gate-attendees-saved-phone');
+
+    // Then the decision, on the phone: no-go, recorded once and e-mailed to the members.
+    const notes = `Not ready: blockers stand (phone review ${Date.now()})`;
+    await page.getByTestId('gate-decision-no-go').click();
+    await page.getByTestId('gate-decision-notes').fill(notes);
+    await page.getByTestId('gate-decision-submit').scrollIntoViewIfNeeded();
+    await screenshot(page, 'gate-decision-phone');
+    expect(await overflow(page)).toBeLessThanOrEqual(0);
+    await page.getByTestId('gate-decision-submit').click();
+    const decided = page.getByTestId('gate-decided');
+    await decided.waitFor();
+    expect(await decided.textContent()).toContain('No-go');
+    expect(await page.getByTestId('gate-decision-submit').count()).toBe(0);
+    expect(await page.getByTestId('gate-attendees-change').count()).toBe(0);
+    await decided.scrollIntoViewIfNeeded();
+    await screenshot(page, 'gate-decided-phone');
+    let mail: Mail | undefined;
+    await waitUntil('the no-go e-mail links to the review', async () => Boolean((mail = await mailLinking(`/gates/${review.id}`))), 30_000);
+    expect(mail!.text).toContain('Night shift supervisor');
     await page.context().close();
-  }, 90_000);
+  }, 120_000);
 
   it('when a technician with an overdue gate action signs in on a phone, then home shows it and they mark it done with a note', async () => {
     const page = await newPage(browser, PHONE);

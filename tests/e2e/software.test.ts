@@ -1,4 +1,5 @@
 import fs from 'node:fs';
+import os from 'node:os';
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { BASE_URL, launchBrowser, newPage, PHONE, screenshot, signIn, waitUntil, WIDE } from '../helpers/browser';
@@ -125,6 +126,48 @@ describe('engineer on a wide screen', () => {
     expect(answer.headers()['content-type']).toContain('text/csv');
     await waitUntil('the export is saved', async () => ((await page.getByTestId('reflash-notice').textContent()) ?? '').startsWith('Saved '));
     await screenshot(page, 'software-reflash-wide');
+  });
+});
+
+describe('engineer on a phone', () => {
+  it('when an engineer imports a one-row read-out on a phone, then the preview shows the change and the asset\'s card in the matrix shows the new version', async () => {
+    const token = await apiToken('engineer@fenwater.example');
+    const program = await programId(token, 'FW3');
+    const { rows, ecus } = await wholeMatrix(token, program);
+    const codes = new Set(ecus.map((e) => e.code));
+    // A row of the sample read-out for an asset and ECU in the matrix, with a version no asset has.
+    const [header, ...lines] = fs.readFileSync(SAMPLE, 'utf8').trim().split(/\r?\n/);
+    const names = header.split(',');
+    const line = lines.map((l) => l.split(',')).find((v) => rows.some((r) => r.tag === v[names.indexOf('asset_tag')]) && codes.has(v[names.indexOf('ecu')]));
+    if (!line) throw new Error('no row of the sample read-out is in the demo matrix');
+    const version = `7.7.${Date.now() % 100_000}`;
+    line[names.indexOf('F189')] = version;
+    const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), 'readout-')), 'phone-readout.csv');
+    fs.writeFileSync(file, `${header}\n${line.join(',')}\n`);
+    const tag = line[names.indexOf('asset_tag')];
+    const ecu = line[names.indexOf('ecu')];
+
+    const page = await newPage(browser, PHONE);
+    await signIn(page, 'engineer@fenwater.example', 'proofyard-demo', '/software/import');
+    await page.waitForURL(/\/software\/import/);
+    const chooser = page.waitForEvent('filechooser');
+    await page.getByTestId('import-file').click();
+    await (await chooser).setFiles(file);
+    const preview = page.getByTestId('import-preview');
+    await preview.waitFor();
+    await page.getByTestId('import-row-1').waitFor();
+    expect(await page.getByTestId('import-row-1').textContent()).toContain(version);
+    await screenshot(page, 'software-import-preview-phone');
+    await page.getByTestId('import-apply').click();
+    await page.getByTestId('import-done').waitFor();
+    await expect(page.getByTestId('import-done').textContent()).resolves.toMatch(/^Imported: 1 ECU updated/);
+
+    await page.goto(`${BASE_URL}/software`);
+    await page.getByTestId('software-matrix').waitFor();
+    expect(await cellText(page, `matrix-cell-${tag}-${ecu}`)).toContain(version);
+    await page.getByTestId(`matrix-cell-${tag}-${ecu}`).first().scrollIntoViewIfNeeded();
+    await screenshot(page, 'software-matrix-phone');
+    await page.context().close();
   });
 });
 
