@@ -43,7 +43,7 @@ type Lhr = {
   environment?: { hostUserAgent?: string; benchmarkIndex?: number };
   categories: { performance?: { score: number | null } };
   audits: Record<string, { numericValue?: number; details?: { items?: Array<{ url?: string; statusCode?: number; resourceType?: string }> } }>;
-  runtimeError?: { message: string };
+  runtimeError?: { code?: string; message: string };
 };
 
 const samePath = (a: string, b: string) => new URL(a).pathname.replace(/\/$/, '') === new URL(b).pathname.replace(/\/$/, '');
@@ -91,8 +91,12 @@ export async function runLighthouse(opts: {
   };
   const lhrs: Lhr[] = [];
   const url = opts.origin + opts.route;
+  // A run that ends in a Lighthouse runtime error (headless Chromium now and then reports NO_FCP
+  // for a page that paints) is tried once more in a fresh browser; a second error fails the part.
+  let retried = false;
   for (let i = 0; i < opts.runs; i += 1) {
-    const dir = path.join(opts.tmpDir, `chromium-${i}`);
+    // A fresh profile folder for every browser, so no run inherits another's state.
+    const dir = fs.mkdtempSync(path.join(opts.tmpDir, `chromium-${i}-`));
     fs.mkdirSync(dir, { recursive: true });
     const { child, port } = await startChromium(dir);
     try {
@@ -111,7 +115,13 @@ export async function runLighthouse(opts: {
       );
       if (!result) throw new Error('Lighthouse gave no result');
       const lhr = result.lhr as unknown as Lhr;
-      if (lhr.runtimeError) throw new Error(`Lighthouse: ${lhr.runtimeError.message}`);
+      if (lhr.runtimeError) {
+        if (retried) throw new Error(`Lighthouse: ${lhr.runtimeError.message}`);
+        retried = true;
+        console.log(`bench: Lighthouse run ${i + 1} of ${url}: ${lhr.runtimeError.code ?? lhr.runtimeError.message}; trying it once more`);
+        i -= 1;
+        continue;
+      }
       lhrs.push(lhr);
     } finally {
       child.kill('SIGTERM');
