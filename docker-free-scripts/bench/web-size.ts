@@ -30,11 +30,16 @@ export function firstLoadJs(distDir: string): FirstLoad {
 }
 
 function expoExport(cwd: string, outDir: string) {
+  // Its own Metro cache (Metro keeps it under $TMPDIR/metro-cache): with the shared one, a build
+  // in a new temporary folder reused expo-router's cached route context of an earlier folder,
+  // and the app it exported found no routes ("No routes found", a blank page under Lighthouse).
+  const tmp = path.join(cwd, '.tmp');
+  fs.mkdirSync(tmp, { recursive: true });
   const res = spawnSync(path.join(ROOT, 'node_modules', '.bin', 'expo'), ['export', '--platform', 'web', '--output-dir', outDir], {
     cwd,
     stdio: ['ignore', 'ignore', 'pipe'],
     encoding: 'utf8',
-    env: { ...process.env, CI: '1', EXPO_NO_TELEMETRY: '1' },
+    env: { ...process.env, CI: '1', EXPO_NO_TELEMETRY: '1', TMPDIR: tmp },
     timeout: 10 * 60_000,
   });
   if (res.status !== 0) throw new Error(`expo export in ${cwd} failed: ${(res.stderr ?? '').slice(-2000) || res.error?.message}`);
