@@ -26,7 +26,7 @@ import {
   type CreateAssignment,
   type RefusalReason,
 } from '@/shared/schemas/fleet';
-import { DateTimeField } from './date-time-field';
+import { DateTimeField } from '@/components/ui/date-field';
 import { DriverPicker } from './driver-picker';
 import { FleetHeader, RoadCaution } from './fleet-header';
 import { fromLocalInput, HOUR_MS, toLocalInput, zoneName } from './fleet-time';

@@ -20,7 +20,7 @@ import {
   type RefusalReason,
   type UpdateAssignment,
 } from '@/shared/schemas/fleet';
-import { DateTimeField } from './date-time-field';
+import { DateTimeField } from '@/components/ui/date-field';
 import { DriverPicker } from './driver-picker';
 import { formatDayTime, fromLocalInput, toLocalInput, zoneName } from './fleet-time';
 import { fleetErrorMessage } from './fleet-words';

@@ -25,7 +25,7 @@ import {
   type Proposal,
   type ProposalRequest,
 } from '@/shared/schemas/fleet';
-import { DateTimeField } from './date-time-field';
+import { DateTimeField } from '@/components/ui/date-field';
 import { FleetHeader } from './fleet-header';
 import { addDays, formatWindow, fromLocalInput, startOfDay, toLocalInput, zoneName } from './fleet-time';
 import { fleetErrorMessage } from './fleet-words';

@@ -43,7 +43,7 @@ import {
   type UpdateBaseline,
 } from '@/shared/schemas/software';
 import { SoftwareHeader } from './software-header';
-import { DayField } from './day-field';
+import { DayField } from '@/components/ui/date-field';
 import { formatDay, softwareCan } from './software-words';
 
 const STATUS_WORDS: Record<BaselineStatus, { label: string; tone: BadgeTone }> = {

@@ -5,7 +5,7 @@ import { StyleSheet, View } from 'react-native';
 import { z } from 'zod';
 import { FormTextField } from '@/components/form/form-text-field';
 import { applyServerFieldErrors } from '@/components/form/server-errors';
-import { DateTimeField } from '@/components/fleet/date-time-field';
+import { DateTimeField } from '@/components/ui/date-field';
 import { fromLocalInput, toLocalInput, zoneName } from '@/components/fleet/fleet-time';
 import { Button } from '@/components/ui/button';
 import { Notice } from '@/components/ui/states';

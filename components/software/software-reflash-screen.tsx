@@ -19,7 +19,7 @@ import { useBreakpoints } from '@/hooks/use-breakpoints';
 import { useSession } from '@/hooks/use-session';
 import { ASSIGNMENT_PURPOSE_LABELS, type AssignmentPurpose } from '@/shared/schemas/fleet';
 import type { PlannedUse, ReflashEntry } from '@/shared/schemas/software';
-import { DayField } from './day-field';
+import { DayField } from '@/components/ui/date-field';
 import { FlashForm, type FlashValues } from './flash-form';
 import { SoftwareHeader } from './software-header';
 import { formatDateTime, formatDay, softwareCan } from './software-words';

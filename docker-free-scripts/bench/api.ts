@@ -11,7 +11,7 @@ import type { Deps } from '../../server/deps';
 import type { RouteSpec } from '../../server/lib/routes';
 import { median, repeat, timed, QUICK } from './common';
 
-type Statement = { text: string; values?: unknown[] };
+export type Statement = { text: string; values?: unknown[] };
 
 let sink: Statement[] | null = null;
 let installed = false;
@@ -31,6 +31,18 @@ function installCapture() {
     }
     return original.apply(this, args);
   };
+}
+
+/** Runs `work` and returns what it gave with the statements this process sent while it ran. */
+export async function recordStatements<T>(work: () => Promise<T>): Promise<{ value: T; statements: Statement[] }> {
+  installCapture();
+  const statements: Statement[] = [];
+  sink = statements;
+  try {
+    return { value: await work(), statements };
+  } finally {
+    sink = null;
+  }
 }
 
 /** An endpoint and the ways of calling it; the first that answers 200 is measured. */
@@ -87,14 +99,12 @@ export async function startInProcess(deps: Deps): Promise<InProcess> {
   });
   const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   const once = async (path: string, token: string) => {
-    sink = [];
-    try {
+    const { value: status, statements } = await recordStatements(async () => {
       const res = await fetch(base + path, { headers: { authorization: `Bearer ${token}` } });
       await res.arrayBuffer();
-      return { status: res.status, statements: sink };
-    } finally {
-      sink = null;
-    }
+      return res.status;
+    });
+    return { status, statements };
   };
   return {
     routes,

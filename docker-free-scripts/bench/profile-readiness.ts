@@ -21,22 +21,9 @@ import { createSequelize } from '../../server/db/sequelize';
 import type { Deps } from '../../server/deps';
 import { programReadiness } from '../../server/services/readiness';
 import { ensureDatabase, startCluster } from '../lib/postgres';
+import { recordStatements, type Statement } from './api';
 import { median } from './common';
 import { generateScaleData } from './scale-data';
-
-type Statement = { text: string; values?: unknown[] };
-let sink: Statement[] | null = null;
-const proto = pg.Client.prototype as unknown as { query: (...args: unknown[]) => unknown };
-const original = proto.query;
-proto.query = function (this: unknown, ...args: unknown[]) {
-  if (sink) {
-    const [config, values] = args;
-    const text = typeof config === 'string' ? config : (config as { text?: string } | undefined)?.text;
-    const vals = Array.isArray(values) ? values : (config as { values?: unknown[] } | undefined)?.values;
-    if (text) sink.push({ text, values: vals });
-  }
-  return original.apply(this, args);
-};
 
 const ms = (start: bigint) => Number(process.hrtime.bigint() - start) / 1e6;
 
@@ -85,15 +72,13 @@ async function main() {
   const serviceCpu: number[] = [];
   const bareCpu: number[] = [];
   const service = async () => {
-    sink = [];
     const start = process.hrtime.bigint();
     const c = process.cpuUsage();
-    const body = JSON.stringify(await programReadiness(deps, user, big));
+    const recorded = await recordStatements(async () => JSON.stringify(await programReadiness(deps, user, big)));
     serviceCpu.push(cpu(c));
     const t = ms(start);
-    statements = sink;
-    sink = null;
-    return { t, bytes: body.length };
+    statements = recorded.statements;
+    return { t, bytes: recorded.value.length };
   };
   const bare = async () => {
     const start = process.hrtime.bigint();

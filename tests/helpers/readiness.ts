@@ -65,22 +65,3 @@ export async function openReview(t: TestApp, world: World, stageId: string, fiel
   if (res.status !== 201) throw new Error(`review open failed: ${res.status} ${JSON.stringify(res.body)}`);
   return res.body as GateReview;
 }
-
-/**
- * Counts the SQL statements Sequelize sends while `work` runs, through its `logging` option (read
- * at each query, so every statement passes it; the type declarations leave `options` out).
- */
-export async function countStatements(t: TestApp, work: () => Promise<unknown>): Promise<{ count: number; statements: string[] }> {
-  const statements: string[] = [];
-  const options = (t.sequelize as unknown as { options: { logging: unknown } }).options;
-  const previous = options.logging;
-  options.logging = (sql: string) => {
-    statements.push(sql);
-  };
-  try {
-    await work();
-  } finally {
-    options.logging = previous;
-  }
-  return { count: statements.length, statements };
-}

@@ -86,3 +86,32 @@ export function linkToken(text: string): string {
   if (!match) throw new Error('no set-password link in the mail');
   return match[1];
 }
+
+/**
+ * Counts the SQL statements Sequelize sends while `work` runs, through its `logging` option (read
+ * at each query, so every statement passes it; the type declarations leave `options` out).
+ */
+export async function countStatements(t: { sequelize: unknown }, work: () => Promise<unknown>): Promise<{ count: number; statements: string[] }> {
+  const statements: string[] = [];
+  const options = (t.sequelize as unknown as { options: { logging: unknown } }).options;
+  const previous = options.logging;
+  options.logging = (sql: string) => {
+    statements.push(sql);
+  };
+  try {
+    await work();
+  } finally {
+    options.logging = previous;
+  }
+  return { count: statements.length, statements };
+}
+
+/** The statements of one request, which must answer 200. */
+export async function statementsOf(t: { sequelize: unknown }, send: () => Promise<request.Response>): Promise<number> {
+  let status = 0;
+  const { count } = await countStatements(t, async () => {
+    status = (await send()).status;
+  });
+  expect(status).toBe(200);
+  return count;
+}

@@ -1,9 +1,9 @@
 import request from 'supertest';
 import type { ProgramReadiness } from '../../shared/schemas/readiness';
 import { createAsset } from '../helpers/assets';
-import { countStatements, muteWorld } from '../helpers/readiness';
+import { muteWorld } from '../helpers/readiness';
 import { makeSoftwareWorld, type SoftwareWorld } from '../helpers/software';
-import { makeTestApp, uid } from '../helpers/test-app';
+import { countStatements, makeTestApp, uid } from '../helpers/test-app';
 import { planTest } from '../helpers/validation';
 
 const t = makeTestApp();

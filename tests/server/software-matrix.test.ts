@@ -1,7 +1,7 @@
 import request from 'supertest';
 import { ReflashListSchema, SoftwareMatrixSchema, type SoftwareMatrix } from '../../shared/schemas/software';
 import { demoSession, makeSoftwareWorld, softwareAsset, type SoftwareWorld } from '../helpers/software';
-import { makeTestApp, uid } from '../helpers/test-app';
+import { makeTestApp, statementsOf, uid } from '../helpers/test-app';
 
 const t = makeTestApp();
 afterAll(() => t.close());
@@ -30,24 +30,6 @@ const matrix = async (world: SoftwareWorld, query: string): Promise<SoftwareMatr
   expect(res.status).toBe(200);
   return SoftwareMatrixSchema.parse(res.body);
 };
-
-/** SQL statements one request runs, counted through Sequelize's logging hook. */
-async function statementsOf(send: () => Promise<request.Response>) {
-  // Sequelize reads `options.logging` on every query; its typings leave `options` out.
-  const options = (t.sequelize as unknown as { options: { logging: unknown } }).options;
-  const original = options.logging;
-  let n = 0;
-  options.logging = () => {
-    n += 1;
-  };
-  try {
-    const res = await send();
-    expect(res.status).toBe(200);
-  } finally {
-    options.logging = original;
-  }
-  return n;
-}
 
 describe('the software matrix', () => {
   it('when the matrix is read, then assets run down, ECUs across, each cell with installed, target and status, and counts per status', async () => {
@@ -108,13 +90,13 @@ describe('the software matrix', () => {
     await fleet(large, 30);
     for (const query of ['limit=200', 'status=behind', `ecuId=${small.ecus.FZC.id}`]) {
       const forLarge = query.replace(small.ecus.FZC.id, large.ecus.FZC.id);
-      const a = await statementsOf(() => request(t.app).get(`/api/software/matrix?programId=${small.program.id}&${query}`).set(small.auth('lead')));
-      const b = await statementsOf(() => request(t.app).get(`/api/software/matrix?programId=${large.program.id}&${forLarge}`).set(large.auth('lead')));
+      const a = await statementsOf(t, () => request(t.app).get(`/api/software/matrix?programId=${small.program.id}&${query}`).set(small.auth('lead')));
+      const b = await statementsOf(t, () => request(t.app).get(`/api/software/matrix?programId=${large.program.id}&${forLarge}`).set(large.auth('lead')));
       expect({ query, small: a, large: b }).toEqual({ query, small: a, large: a });
       expect(a).toBeLessThanOrEqual(8);
     }
-    const r5 = await statementsOf(() => request(t.app).get(`/api/software/reflash?programId=${small.program.id}`).set(small.auth('lead')));
-    const r30 = await statementsOf(() => request(t.app).get(`/api/software/reflash?programId=${large.program.id}`).set(large.auth('lead')));
+    const r5 = await statementsOf(t, () => request(t.app).get(`/api/software/reflash?programId=${small.program.id}`).set(small.auth('lead')));
+    const r30 = await statementsOf(t, () => request(t.app).get(`/api/software/reflash?programId=${large.program.id}`).set(large.auth('lead')));
     expect(r30).toBe(r5);
   });
 });

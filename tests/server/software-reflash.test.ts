@@ -1,7 +1,7 @@
 import request from 'supertest';
 import { ReflashListSchema, type ReflashList } from '../../shared/schemas/software';
 import { makeSoftwareWorld, softwareAsset, type SoftwareWorld } from '../helpers/software';
-import { makeTestApp, uid } from '../helpers/test-app';
+import { makeTestApp, statementsOf, uid } from '../helpers/test-app';
 
 // The reflash list "before a chosen date or test" (issue 5): which assets must be flashed, with
 // what, before a day or a validation test, with the date each is needed by.
@@ -92,23 +92,6 @@ async function reflash(world: SoftwareWorld, query: string): Promise<ReflashList
   const res = await request(t.app).get(`/api/software/reflash?programId=${world.program.id}${query}`).set(world.auth('driver'));
   expect(res.status).toBe(200);
   return ReflashListSchema.parse(res.body);
-}
-
-/** SQL statements one request runs, counted through Sequelize's logging hook. */
-async function statementsOf(send: () => Promise<request.Response>) {
-  const options = (t.sequelize as unknown as { options: { logging: unknown } }).options;
-  const original = options.logging;
-  let n = 0;
-  options.logging = () => {
-    n += 1;
-  };
-  try {
-    const res = await send();
-    expect(res.status).toBe(200);
-  } finally {
-    options.logging = original;
-  }
-  return n;
 }
 
 describe('the reflash list before a chosen date or test', () => {
@@ -211,14 +194,14 @@ describe('the reflash list before a chosen date or test', () => {
     }
     await gateDate(large, dayFromNow(10));
     for (const query of [`before=${dayFromNow(3)}`, '']) {
-      const a = await statementsOf(() => request(t.app).get(`/api/software/reflash?programId=${small.world.program.id}&${query}`).set(small.world.auth('lead')));
-      const b = await statementsOf(() => request(t.app).get(`/api/software/reflash?programId=${large.program.id}&${query}`).set(large.auth('lead')));
+      const a = await statementsOf(t, () => request(t.app).get(`/api/software/reflash?programId=${small.world.program.id}&${query}`).set(small.world.auth('lead')));
+      const b = await statementsOf(t, () => request(t.app).get(`/api/software/reflash?programId=${large.program.id}&${query}`).set(large.auth('lead')));
       expect({ query, small: a, large: b }).toEqual({ query, small: a, large: a });
     }
-    const a = await statementsOf(() =>
+    const a = await statementsOf(t, () =>
       request(t.app).get(`/api/software/reflash?programId=${small.world.program.id}&testId=${small.testId}&before=${dayFromNow(3)}`).set(small.world.auth('lead')),
     );
-    const b = await statementsOf(() =>
+    const b = await statementsOf(t, () =>
       request(t.app).get(`/api/software/reflash?programId=${large.program.id}&testId=${largeTest}&before=${dayFromNow(3)}`).set(large.auth('lead')),
     );
     expect(b).toBe(a);

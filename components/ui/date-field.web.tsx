@@ -2,22 +2,37 @@ import { useId, useState, type CSSProperties } from 'react';
 import { StyleSheet, View } from 'react-native';
 import { Text } from '@/components/ui/text';
 import { colors, radii, sizes, spacing, typeScale } from '@/components/theme/tokens';
-import type { DateTimeFieldProps } from './date-time-field';
+import type { DateFieldProps } from './date-field';
+
+/** A day: the browser's `<input type="date">`, holding `YYYY-MM-DD`, or nothing while a day is half typed. */
+export function DayField(props: DateFieldProps) {
+  return <BrowserPicker {...props} type="date" maxWidth={280} />;
+}
+
+/** A date and time: `<input type="datetime-local">`, `YYYY-MM-DDTHH:MM` in the device's time zone (as the native field holds it), in 5-minute steps. */
+export function DateTimeField(props: DateFieldProps) {
+  return <BrowserPicker {...props} type="datetime-local" step={300} />;
+}
 
 /**
- * The browser's own date and time picker (`<input type="datetime-local">`): a wheel on a phone,
- * a calendar on a desktop, and typed digits for a keyboard. It holds `YYYY-MM-DDTHH:MM` in the
- * device's time zone, the same value the native text field holds.
+ * The browser's own picker: a calendar on a desktop, a wheel on a phone, typed digits for a
+ * keyboard; labelled, with its hint or error tied to it and the product's focus ring.
  */
-export function DateTimeField({ label, value, onChange, error, hint, testID }: DateTimeFieldProps) {
+function BrowserPicker({
+  label,
+  value,
+  onChange,
+  error,
+  hint,
+  testID,
+  type,
+  step,
+  maxWidth,
+}: DateFieldProps & { type: 'date' | 'datetime-local'; step?: number; maxWidth?: number }) {
   const id = useId().replace(/[^a-zA-Z0-9_-]/g, '');
   const [focused, setFocused] = useState(false);
   const message = error ?? hint;
-  const style: CSSProperties = {
-    ...inputBase,
-    ...(error ? inputError : null),
-    ...(focused ? inputFocused : null),
-  };
+  const style: CSSProperties = { ...inputBase, maxWidth, ...(error ? inputError : null), ...(focused ? inputFocused : null) };
   return (
     <View style={styles.field}>
       <label htmlFor={id} style={labelStyle}>
@@ -25,9 +40,9 @@ export function DateTimeField({ label, value, onChange, error, hint, testID }: D
       </label>
       <input
         id={id}
-        type="datetime-local"
+        type={type}
         value={value}
-        step={300}
+        step={step}
         onChange={(event) => onChange(event.target.value)}
         onFocus={() => setFocused(true)}
         onBlur={() => setFocused(false)}
